@@ -1,0 +1,53 @@
+namespace Partwise.Core.Problems;
+
+/// <summary>
+/// The stable problem types of the contract. Callers branch on these strings, so they never change once
+/// published. The host maps each to an HTTP status: shape errors to 400, uncomputable input to 422.
+/// </summary>
+public static class ProblemTypes
+{
+    /// <summary>Malformed or wrongly shaped input: ragged rows, duplicate or empty part names, a single part, wrong types.</summary>
+    public const string InvalidInput = "/problems/invalid-input";
+
+    /// <summary>A value that is NaN, infinite or otherwise not a finite number.</summary>
+    public const string NonFiniteValue = "/problems/non-finite-value";
+
+    /// <summary>A negative value in a composition.</summary>
+    public const string NegativeValue = "/problems/negative-value";
+
+    /// <summary>A zero under the <c>reject</c> policy, or a row that is entirely zero.</summary>
+    public const string ZeroValue = "/problems/zero-value";
+
+    /// <summary>A part name that the table does not have.</summary>
+    public const string UnknownPart = "/problems/unknown-part";
+
+    /// <summary>A zero policy that cannot be applied (missing detection limit, non-integer counts for the Bayesian policy).</summary>
+    public const string InvalidZeroPolicy = "/problems/invalid-zero-policy";
+
+    /// <summary>A partition that is not a sequential binary partition.</summary>
+    public const string InvalidPartition = "/problems/invalid-partition";
+
+    /// <summary>A ratio that is not well formed: overlapping sides, an empty side, a missing or wrong <c>kind</c>.</summary>
+    public const string InvalidRatio = "/problems/invalid-ratio";
+
+    /// <summary>A ratio set that cannot be inverted: incomplete, singular or ill-conditioned.</summary>
+    public const string SingularRatioSet = "/problems/singular-ratio-set";
+
+    /// <summary>Ratio values whose back-transform gives a part that is zero or negative.</summary>
+    public const string InfeasibleRatioValues = "/problems/infeasible-ratio-values";
+
+    /// <summary>Input within the size limit of the body but over a computation limit (rows, parts, distance matrix).</summary>
+    public const string ComputationLimit = "/problems/computation-limit";
+
+    /// <summary>Weights that are not positive or name unknown parts.</summary>
+    public const string InvalidWeights = "/problems/invalid-weights";
+
+    /// <summary>A covariance (moments) that is not symmetric positive semi-definite, or whose names do not match.</summary>
+    public const string InvalidMoments = "/problems/invalid-moments";
+
+    /// <summary>An option outside its valid range (for example <c>stop.explained</c> outside (0, 1]).</summary>
+    public const string InvalidOption = "/problems/invalid-option";
+
+    /// <summary>A scatter matrix that is singular, so no distance can be computed.</summary>
+    public const string SingularScatter = "/problems/singular-scatter";
+}
