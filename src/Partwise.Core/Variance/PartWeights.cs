@@ -103,5 +103,4 @@ public static class PartWeights
 
         return w;
     }
-
 }
