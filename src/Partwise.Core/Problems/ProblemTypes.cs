@@ -50,4 +50,19 @@ public static class ProblemTypes
 
     /// <summary>A scatter matrix that is singular, so no distance can be computed.</summary>
     public const string SingularScatter = "/problems/singular-scatter";
+
+    /// <summary>A request over a size limit: the body's bytes, or its number of parts or rows (HTTP 413).</summary>
+    public const string TooLarge = "/problems/too-large";
+
+    /// <summary>A request body in a media type the endpoint does not take (HTTP 415).</summary>
+    public const string UnsupportedMediaType = "/problems/unsupported-media-type";
+
+    /// <summary>No resource at the requested path (HTTP 404).</summary>
+    public const string NotFound = "/problems/not-found";
+
+    /// <summary>The resource exists but not with the requested HTTP method (HTTP 405).</summary>
+    public const string MethodNotAllowed = "/problems/method-not-allowed";
+
+    /// <summary>A failure inside the service, not caused by the request (HTTP 500).</summary>
+    public const string InternalError = "/problems/internal-error";
 }
