@@ -1,4 +1,28 @@
+using Partwise.Api.Coordinates;
+using Partwise.Api.Health;
+using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.OpenApi;
+using Partwise.Api.Summary;
+
 var builder = WebApplication.CreateBuilder(args);
+
+builder.UseDefaultListenAddress();
+builder.AddPartwiseLogging();
+builder.Services.AddPartwiseLimits(builder.Configuration);
+builder.Services.AddPartwiseProblems();
+builder.Services.AddPartwiseJson();
+builder.Services.AddPartwiseOpenApi();
+
 var app = builder.Build();
-app.MapGet("/healthz", () => Results.Ok(new { status = "ok" }));
+
+app.UseRequestId();
+app.UsePartwiseRequestLogging();
+app.UseExceptionHandler();
+app.UseStatusCodeProblems();
+app.UsePartwiseOpenApi();
+
+app.MapHealth();
+app.MapCoordinates();
+app.MapSummary();
+
 app.Run();

@@ -1,0 +1,46 @@
+using Microsoft.AspNetCore.Diagnostics;
+using Serilog;
+using Serilog.Events;
+using Serilog.Formatting.Compact;
+
+namespace Partwise.Api.Infrastructure;
+
+/// <summary>
+/// Structured logs: compact JSON events on stdout, one completion event per request (method, route, status,
+/// elapsed, request id, and the shape fields handlers add such as PartCount and RowCount), and never the values
+/// a caller sent. The framework's own per-request logs are quieted to warnings.
+/// </summary>
+public static class RequestLogging
+{
+    /// <summary>Configures Serilog from the <c>Serilog</c> configuration section over the defaults here.</summary>
+    public static WebApplicationBuilder AddPartwiseLogging(this WebApplicationBuilder builder)
+    {
+        ArgumentNullException.ThrowIfNull(builder);
+        builder.Services.AddSerilog((services, configuration) => configuration
+            .MinimumLevel.Information()
+            .MinimumLevel.Override("Microsoft.AspNetCore", LogEventLevel.Warning)
+            .MinimumLevel.Override("Microsoft.Hosting.Lifetime", LogEventLevel.Information)
+            .ReadFrom.Configuration(builder.Configuration)
+            .Enrich.FromLogContext()
+            .WriteTo.Console(new RenderedCompactJsonFormatter()));
+        return builder;
+    }
+
+    /// <summary>Adds the completion event; put it after <see cref="RequestId.UseRequestId"/> and before the exception handler.</summary>
+    public static IApplicationBuilder UsePartwiseRequestLogging(this IApplicationBuilder app) =>
+        app.UseSerilogRequestLogging(options =>
+        {
+            options.MessageTemplate = "HTTP {RequestMethod} {RequestPath} responded {StatusCode} in {Elapsed:0.0} ms";
+            options.GetLevel = static (context, _, exception) =>
+                exception is not null || context.Response.StatusCode >= 500 ? LogEventLevel.Error : LogEventLevel.Information;
+            options.EnrichDiagnosticContext = static (diagnostics, context) =>
+            {
+                diagnostics.Set("RequestId", context.TraceIdentifier);
+                // After an exception the handler has cleared the endpoint; its feature still knows the route.
+                var endpoint = context.GetEndpoint() ?? context.Features.Get<IExceptionHandlerFeature>()?.Endpoint;
+                diagnostics.Set("Route", (endpoint as RouteEndpoint)?.RoutePattern.RawText);
+                diagnostics.Set("RequestContentType", context.Request.ContentType);
+                diagnostics.Set("ResponseContentType", context.Response.ContentType);
+            };
+        });
+}
