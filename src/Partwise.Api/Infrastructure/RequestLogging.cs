@@ -12,7 +12,11 @@ namespace Partwise.Api.Infrastructure;
 /// </summary>
 public static class RequestLogging
 {
-    /// <summary>Configures Serilog from the <c>Serilog</c> configuration section over the defaults here.</summary>
+    /// <summary>
+    /// Configures Serilog from the <c>Serilog</c> configuration section over the defaults here; sinks and enrichers
+    /// registered as services are added too. The static <c>Log.Logger</c> is left alone: each host (several run in
+    /// one test process) logs through its own logger.
+    /// </summary>
     public static WebApplicationBuilder AddPartwiseLogging(this WebApplicationBuilder builder)
     {
         ArgumentNullException.ThrowIfNull(builder);
@@ -21,8 +25,10 @@ public static class RequestLogging
             .MinimumLevel.Override("Microsoft.AspNetCore", LogEventLevel.Warning)
             .MinimumLevel.Override("Microsoft.Hosting.Lifetime", LogEventLevel.Information)
             .ReadFrom.Configuration(builder.Configuration)
+            .ReadFrom.Services(services)
             .Enrich.FromLogContext()
-            .WriteTo.Console(new RenderedCompactJsonFormatter()));
+            .WriteTo.Console(new RenderedCompactJsonFormatter()),
+            preserveStaticLogger: true);
         return builder;
     }
 
@@ -30,6 +36,7 @@ public static class RequestLogging
     public static IApplicationBuilder UsePartwiseRequestLogging(this IApplicationBuilder app) =>
         app.UseSerilogRequestLogging(options =>
         {
+            options.Logger = app.ApplicationServices.GetRequiredService<Serilog.ILogger>();
             options.MessageTemplate = "HTTP {RequestMethod} {RequestPath} responded {StatusCode} in {Elapsed:0.0} ms";
             options.GetLevel = static (context, _, exception) =>
                 exception is not null || context.Response.StatusCode >= 500 ? LogEventLevel.Error : LogEventLevel.Information;
