@@ -36,7 +36,9 @@ def with_zeros(seed, n, J, rate=0.08, zero_parts=None):
         while (~mask[i]).sum() < 2:
             mask[i, np.flatnonzero(mask[i])[0]] = False
     x[mask] = 0.0
-    limits = np.array([0.5 * x[x[:, j] > 0, j].min() for j in range(J)])
+    # A part that is zero in every row (possible with one row) takes half the table's smallest value.
+    floor = 0.5 * x[x > 0].min()
+    limits = np.array([0.5 * x[x[:, j] > 0, j].min() if (x[:, j] > 0).any() else floor for j in range(J)])
     return x, limits
 
 
