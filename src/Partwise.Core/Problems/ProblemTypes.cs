@@ -50,4 +50,10 @@ public static class ProblemTypes
 
     /// <summary>A scatter matrix that is singular, so no distance can be computed.</summary>
     public const string SingularScatter = "/problems/singular-scatter";
+
+    /// <summary>Fewer reference samples than a scatter estimate needs (at least p + 1 for p coordinates).</summary>
+    public const string TooFewSamples = "/problems/too-few-samples";
+
+    /// <summary>A sample that lacks a value for one of the baseline's parts.</summary>
+    public const string MissingPart = "/problems/missing-part";
 }
