@@ -65,4 +65,10 @@ public static class ProblemTypes
 
     /// <summary>A failure inside the service, not caused by the request (HTTP 500).</summary>
     public const string InternalError = "/problems/internal-error";
+
+    /// <summary>Fewer reference samples than a scatter estimate needs (at least p + 1 for p coordinates).</summary>
+    public const string TooFewSamples = "/problems/too-few-samples";
+
+    /// <summary>A sample that lacks a value for one of the baseline's parts.</summary>
+    public const string MissingPart = "/problems/missing-part";
 }
