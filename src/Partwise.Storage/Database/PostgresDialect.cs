@@ -56,6 +56,8 @@ internal sealed class PostgresDialect : StoreDialect
 
     public override string LockRowForShare => " FOR SHARE";
 
+    public override string LockRowForUpdate => " FOR UPDATE";
+
     // One migrator per schema at a time; the lock ends with the transaction.
     public override string? MigrationLock =>
         "SELECT pg_advisory_xact_lock(hashtext(coalesce(current_schema(), '') || '/partwise-migrations'))";

@@ -100,6 +100,8 @@ internal sealed class SqliteDialect : StoreDialect
     // A single writer at a time already keeps a retirement out of an open write transaction.
     public override string LockRowForShare => "";
 
+    public override string LockRowForUpdate => "";
+
     // BEGIN IMMEDIATE already serialises migrations.
     public override string? MigrationLock => null;
 

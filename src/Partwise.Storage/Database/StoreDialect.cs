@@ -30,6 +30,9 @@ internal abstract class StoreDialect : IAsyncDisposable
     /// <summary>Appended to a SELECT of a baseline row that must hold off its retirement until the transaction ends.</summary>
     public abstract string LockRowForShare { get; }
 
+    /// <summary>Appended to a SELECT of a row that the transaction will update, to take its write lock now.</summary>
+    public abstract string LockRowForUpdate { get; }
+
     /// <summary>A statement run first in the migration transaction so that replicas starting together migrate one at a time, or null.</summary>
     public abstract string? MigrationLock { get; }
 

@@ -29,6 +29,17 @@ internal static class FlagRows
         return new ChangeToken(reader.GetString(0), reader.GetInt64(1));
     }
 
+    /// <summary>
+    /// Takes the change counter's write lock without changing it. Every write transaction that raises or reviews
+    /// flags takes this lock before any other row lock (then screening keys in ordinal order of sample id), so two
+    /// such transactions never wait for each other in a cycle.
+    /// </summary>
+    public static async Task LockCounterAsync(DbConnection connection, DbTransaction transaction, StoreDialect dialect, CancellationToken cancellationToken)
+    {
+        await using var select = connection.Command(transaction, $"SELECT change_counter FROM store_info WHERE id = 1{dialect.LockRowForUpdate}");
+        _ = await select.ExecuteScalarAsync(cancellationToken);
+    }
+
     /// <summary>The current change token.</summary>
     public static async Task<ChangeToken> ReadTokenAsync(DbConnection connection, CancellationToken cancellationToken)
     {

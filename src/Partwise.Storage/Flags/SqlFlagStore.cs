@@ -86,6 +86,8 @@ internal sealed class SqlFlagStore(StoreDatabase database, ChangeWatcher watcher
 
         var (flag, token) = await database.WriteAsync<(FlagRecord?, ChangeToken?)>(async (connection, transaction, ct) =>
         {
+            // The counter first, as everywhere (see FlagRows.LockCounterAsync); an unknown flag rolls the bump back.
+            var bumped = await FlagRows.BumpAsync(connection, transaction, ct);
             await using var update = connection.Command(
                 transaction,
                 $"""
@@ -98,19 +100,10 @@ internal sealed class SqlFlagStore(StoreDatabase database, ChangeWatcher watcher
             update.Add("@note", note);
             update.Add("@reviewer", reviewer);
             database.Dialect.AddTimestamp(update, "@reviewedAt", database.Now());
-            FlagRecord? updated;
-            await using (var reader = await update.ExecuteReaderAsync(ct))
-            {
-                updated = await reader.ReadAsync(ct) ? FlagRows.Read(reader, database.Dialect) : null;
-            }
-
-            if (updated is null)
-            {
-                return ((null, null), false);
-            }
-
-            var bumped = await FlagRows.BumpAsync(connection, transaction, ct);
-            return ((updated, bumped), true);
+            await using var reader = await update.ExecuteReaderAsync(ct);
+            return await reader.ReadAsync(ct)
+                ? ((FlagRows.Read(reader, database.Dialect), bumped), true)
+                : ((null, null), false);
         }, cancellationToken);
 
         if (token is { } committed)

@@ -16,7 +16,9 @@ public interface IScreeningStore
     /// flag (status open) when <see cref="ScreeningEntry.Flag"/> is set; one already stored with the same fingerprint
     /// is a duplicate and returns the stored screening; one stored with another fingerprint is a conflict, and then
     /// the whole call is rolled back. A sample id repeated within the call is treated as if posted twice. The
-    /// baseline must exist and be active, checked in the same transaction.
+    /// baseline must exist and be active, checked in the same transaction. Entries are written in ordinal order of
+    /// sample id (so concurrent overlapping batches cannot deadlock), hence the flags of one call follow that order;
+    /// the outcomes keep the order given.
     /// </summary>
     /// <exception cref="ArgumentException">No entries, or a malformed one.</exception>
     /// <exception cref="StorageUnavailableException">The database cannot be reached; nothing was stored.</exception>

@@ -115,11 +115,21 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
         await using var select = SelectCommand(connection, transaction);
         select.Set("@baselineId", baselineId);
 
-        var outcomes = new List<ScreeningOutcome>(entries.Count);
+        // Lock order, the same in every transaction that writes flags or screenings: the change counter (only when
+        // a flag may be raised), then the screening keys in ordinal order of sample id. Concurrent batches with
+        // overlapping samples (a retry through another replica) then wait for each other instead of deadlocking.
+        if (entries.Any(e => e.Flag is not null))
+        {
+            await FlagRows.LockCounterAsync(connection, transaction, dialect, ct);
+        }
+
+        var order = Enumerable.Range(0, entries.Count).OrderBy(i => entries[i].SampleId, StringComparer.Ordinal).ToList();
+        var outcomes = new ScreeningOutcome[entries.Count];
         var recordedHere = new HashSet<string>(StringComparer.Ordinal);
         ChangeToken? token = null;
-        foreach (var entry in entries)
+        foreach (var index in order)
         {
+            var entry = entries[index];
             var flagId = entry.Flag is null ? null : StoreIds.New();
             var observedAt = FlagRows.WriteObservedAt(entry.ObservedAt);
             insert.Set("@sampleId", entry.SampleId);
@@ -145,7 +155,7 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
                 }
 
                 var stored = new StoredScreening(entry.SampleId, entry.Fingerprint, entry.ResultJson, screenedAt, flagId, entry.ObservedAt, entry.Source);
-                outcomes.Add(new ScreeningOutcome(ScreeningOutcomeKind.Recorded, entry.SampleId, stored));
+                outcomes[index] = new ScreeningOutcome(ScreeningOutcomeKind.Recorded, entry.SampleId, stored);
                 recordedHere.Add(entry.SampleId);
                 continue;
             }
@@ -153,9 +163,9 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
             select.Set("@sampleId", entry.SampleId);
             var existing = await ReadStoredAsync(select, ct)
                 ?? throw new InvalidOperationException("A screening that blocked an insert is not there to read.");
-            outcomes.Add(string.Equals(existing.Fingerprint, entry.Fingerprint, StringComparison.Ordinal)
+            outcomes[index] = string.Equals(existing.Fingerprint, entry.Fingerprint, StringComparison.Ordinal)
                 ? new ScreeningOutcome(ScreeningOutcomeKind.Duplicate, entry.SampleId, existing)
-                : new ScreeningOutcome(ScreeningOutcomeKind.Conflict, entry.SampleId, null));
+                : new ScreeningOutcome(ScreeningOutcomeKind.Conflict, entry.SampleId, null);
         }
 
         if (outcomes.Any(o => o.Kind == ScreeningOutcomeKind.Conflict))

@@ -1,3 +1,4 @@
+using System.Globalization;
 using Partwise.Storage.Flags;
 using Partwise.Storage.Screenings;
 using Partwise.Storage.Tests.Support;
@@ -194,5 +195,34 @@ public abstract partial class StoreBehaviour
         }
 
         Assert.Null(await Store.Screenings.GetAsync(baseline.Id, good.SampleId, CancellationToken.None));
+    }
+
+    [StoreFact]
+    public async Task OverlappingBatchesFromTwoReplicasNeitherDeadlockNorRecordASampleTwice()
+    {
+        var baseline = await CreateBaselineAsync();
+        var replicas = new[] { Open(), Open() };
+        // Each round: one replica posts the samples in order, the other in reverse (a client retrying through
+        // another replica with its list the other way round); every other sample is flagged.
+        for (var round = 0; round < 4; round++)
+        {
+            var forward = Enumerable.Range(0, 12)
+                .Select(i => Samples.Entry(string.Create(CultureInfo.InvariantCulture, $"round-{round}/well-{i:00}"), flagged: i % 2 == 0))
+                .ToList();
+            var backward = Enumerable.Reverse(forward).ToList();
+
+            var results = await Task.WhenAll(
+                Task.Run(() => replicas[0].Screenings.RecordBatchAsync(baseline.Id, forward, CancellationToken.None)),
+                Task.Run(() => replicas[1].Screenings.RecordBatchAsync(baseline.Id, backward, CancellationToken.None)));
+
+            Assert.All(results, r => Assert.Equal(ScreeningBatchStatus.Committed, r.Status));
+            var recorded = results.SelectMany(r => r.Outcomes).Where(o => o.Kind == ScreeningOutcomeKind.Recorded).Select(o => o.SampleId).ToList();
+            Assert.Equal(forward.Select(e => e.SampleId).Order(), recorded.Order());
+            Assert.Equal(forward.Select(e => e.SampleId), results[0].Outcomes.Select(o => o.SampleId));
+            Assert.Equal(backward.Select(e => e.SampleId), results[1].Outcomes.Select(o => o.SampleId));
+        }
+
+        var flags = await Store.Flags.ListAsync(new FlagQuery(Status: FlagStatusFilter.Any, Limit: 500), CancellationToken.None);
+        Assert.Equal(4 * 6, flags.Items.Count);
     }
 }

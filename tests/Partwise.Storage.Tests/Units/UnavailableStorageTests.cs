@@ -42,5 +42,7 @@ public sealed class UnavailableStorageTests : IDisposable
         await Assert.ThrowsAsync<StorageUnavailableException>(() => store.PingAsync(CancellationToken.None));
         await Assert.ThrowsAsync<StorageUnavailableException>(() => store.Flags.ListAsync(new FlagQuery(), CancellationToken.None));
         await Assert.ThrowsAsync<StorageUnavailableException>(() => store.Baselines.CreateAsync("wells-north", _ => "{}", CancellationToken.None));
+        await Assert.ThrowsAsync<StorageUnavailableException>(() =>
+            store.Flags.WaitForChangeAsync(new ChangeToken("0", 0), TimeSpan.FromSeconds(1), CancellationToken.None));
     }
 }
