@@ -310,4 +310,28 @@ public abstract partial class StoreBehaviour
 
         Assert.All(woken, t => Assert.True(t.Counter > since.Counter));
     }
+
+    [StoreFact]
+    public async Task ReviewsAndNewFlagsFromTwoReplicasAtOnceAllCommitAndEachMovesTheCounter()
+    {
+        var baseline = await CreateBaselineAsync();
+        var existing = await RaiseFlagsAsync(baseline.Id, 10, "well-01");
+        var before = await Store.Flags.GetChangeTokenAsync(CancellationToken.None);
+        var replicas = new[] { Open(), Open() };
+
+        var reviews = existing.Select((id, i) => Task.Run(() =>
+            replicas[i % 2].Flags.ReviewAsync(id, i % 3 == 0 ? FlagStatus.Dismissed : FlagStatus.Confirmed, "checked", "analyst-3", CancellationToken.None)));
+        var screenings = Enumerable.Range(0, 10).Select(i => Task.Run(() =>
+            replicas[(i + 1) % 2].Screenings.RecordAsync(baseline.Id, Samples.Entry(string.Create(CultureInfo.InvariantCulture, $"well-02/{i:000}"), flagged: true), CancellationToken.None)));
+        var reviewed = await Task.WhenAll(reviews);
+        var recorded = await Task.WhenAll(screenings);
+
+        Assert.All(reviewed, Assert.NotNull);
+        Assert.All(recorded, r => Assert.Equal(ScreeningBatchStatus.Committed, r.Status));
+        var after = await Store.Flags.GetChangeTokenAsync(CancellationToken.None);
+        Assert.Equal(before.Counter + 20, after.Counter);
+        var open = await Store.Flags.ListAsync(new FlagQuery(Limit: 500), CancellationToken.None);
+        Assert.Equal(10, open.Items.Count);
+        Assert.All(open.Items, f => Assert.StartsWith("well-02/", f.SampleId, StringComparison.Ordinal));
+    }
 }
