@@ -115,9 +115,10 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
         await using var select = SelectCommand(connection, transaction);
         select.Set("@baselineId", baselineId);
 
-        // Lock order, the same in every transaction that writes flags or screenings: the change counter (only when
-        // a flag may be raised), then the screening keys in ordinal order of sample id. Concurrent batches with
-        // overlapping samples (a retry through another replica) then wait for each other instead of deadlocking.
+        // Lock order, after the baseline's share lock and the same in every transaction that writes flags or
+        // screenings: the change counter (only when a flag may be raised; reviews take it first too), then the
+        // screening keys in ordinal order of sample id. Concurrent batches with overlapping samples (a retry through
+        // another replica) then wait for each other instead of deadlocking.
         if (entries.Any(e => e.Flag is not null))
         {
             await FlagRows.LockCounterAsync(connection, transaction, dialect, ct);
