@@ -32,6 +32,8 @@ public static class ProblemCatalog
         [ProblemTypes.InvalidMoments] = (StatusCodes.Status422UnprocessableEntity, "The moments cannot be used"),
         [ProblemTypes.InvalidOption] = (StatusCodes.Status422UnprocessableEntity, "An option is out of range"),
         [ProblemTypes.SingularScatter] = (StatusCodes.Status422UnprocessableEntity, "The scatter matrix is singular"),
+        [ProblemTypes.TooFewSamples] = (StatusCodes.Status422UnprocessableEntity, "There are too few reference samples"),
+        [ProblemTypes.MissingPart] = (StatusCodes.Status422UnprocessableEntity, "A part is missing"),
     };
 
     /// <summary>The HTTP status of a problem type: 422 for any type not in the table.</summary>
