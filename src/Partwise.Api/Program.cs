@@ -1,4 +1,6 @@
+using Partwise.Api.Baselines;
 using Partwise.Api.Coordinates;
+using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
@@ -12,6 +14,8 @@ builder.Services.AddPartwiseLimits(builder.Configuration);
 builder.Services.AddPartwiseProblems();
 builder.Services.AddPartwiseJson();
 builder.Services.AddPartwiseOpenApi();
+builder.Services.AddPartwiseStorage(builder.Configuration);
+builder.Services.AddPartwiseBaselines(builder.Configuration);
 
 var app = builder.Build();
 
@@ -24,5 +28,8 @@ app.UsePartwiseOpenApi();
 app.MapHealth();
 app.MapCoordinates();
 app.MapSummary();
+app.MapBaselines();
+app.MapScreenings();
+app.MapFlags();
 
 app.Run();

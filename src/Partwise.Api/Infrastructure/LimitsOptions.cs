@@ -28,6 +28,9 @@ public sealed class LimitsOptions
     /// would be larger (all pairwise ratios of many parts) is a 422 <c>/problems/computation-limit</c>.
     /// </summary>
     public long MaxResultValues { get; set; } = 20_000_000;
+
+    /// <summary>Most samples one screening request may hold (default 1,000); more is a 413 <c>/problems/too-large</c>.</summary>
+    public int MaxScreeningSamples { get; set; } = 1_000;
 }
 
 /// <summary>Rejects limits that would make the service refuse everything or accept unbounded work.</summary>
@@ -62,6 +65,11 @@ public sealed class LimitsOptionsValidator : IValidateOptions<LimitsOptions>
         if (options.MaxResultValues is < 1 or > int.MaxValue)
         {
             failures.Add($"{LimitsOptions.Section}:MaxResultValues must be between 1 and {int.MaxValue}.");
+        }
+
+        if (options.MaxScreeningSamples < 1)
+        {
+            failures.Add($"{LimitsOptions.Section}:MaxScreeningSamples must be at least 1.");
         }
 
         return failures.Count == 0 ? ValidateOptionsResult.Success : ValidateOptionsResult.Fail(failures);

@@ -34,6 +34,9 @@ public static class ProblemCatalog
         [ProblemTypes.SingularScatter] = (StatusCodes.Status422UnprocessableEntity, "The scatter matrix is singular"),
         [ProblemTypes.TooFewSamples] = (StatusCodes.Status422UnprocessableEntity, "There are too few reference samples"),
         [ProblemTypes.MissingPart] = (StatusCodes.Status422UnprocessableEntity, "A part is missing"),
+        [ProblemTypes.Conflict] = (StatusCodes.Status409Conflict, "The request conflicts with what is stored"),
+        [ProblemTypes.BaselineRetired] = (StatusCodes.Status410Gone, "The baseline is retired"),
+        [ProblemTypes.StorageUnavailable] = (StatusCodes.Status503ServiceUnavailable, "Storage is unavailable"),
     };
 
     /// <summary>The HTTP status of a problem type: 422 for any type not in the table.</summary>

@@ -71,4 +71,13 @@ public static class ProblemTypes
 
     /// <summary>A sample that lacks a value for one of the baseline's parts.</summary>
     public const string MissingPart = "/problems/missing-part";
+
+    /// <summary>The same idempotency key (a sample id under a baseline) sent again with other content (HTTP 409).</summary>
+    public const string Conflict = "/problems/conflict";
+
+    /// <summary>A baseline that has been retired and no longer takes screenings (HTTP 410).</summary>
+    public const string BaselineRetired = "/problems/baseline-retired";
+
+    /// <summary>The durable store cannot be reached or cannot take the operation now (HTTP 503); retrying later may succeed.</summary>
+    public const string StorageUnavailable = "/problems/storage-unavailable";
 }
