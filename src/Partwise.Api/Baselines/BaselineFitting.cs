@@ -188,13 +188,38 @@ public static class BaselineFitting
                 }
 
                 var ratios = list.Select((r, k) => BaselineOptionsReader.CoordinateRatio(r, parts, string.Create(CultureInfo.InvariantCulture, $"/coordinates/ratios/{k}"))).ToArray();
-                return ("ratios", RatioMap(ratios, parts.Count), ratios, null);
+                var map = RatioMap(ratios, parts.Count);
+                RequireIndependent(parts, map, ratios.Length);
+                return ("ratios", map, ratios, null);
             case "selection":
                 throw new CompositionException(ProblemTypes.InvalidOption, "/coordinates/type", "selection baselines arrive with the ratio-selection engine; use ilr or ratios coordinates for now.");
             case null:
                 throw new CompositionException(ProblemTypes.InvalidInput, "/coordinates/type", "The coordinates need \"type\": ilr, ratios or selection.");
             default:
                 throw new CompositionException(ProblemTypes.InvalidInput, "/coordinates/type", $"The coordinates type '{option!.Type}' is unknown; use ilr, ratios or selection.");
+        }
+    }
+
+    /// <summary>
+    /// Refuses linearly dependent coordinate ratios before any scatter is estimated, so that the problem names the
+    /// ratios rather than the (then necessarily singular) scatter: the math library's check of the map, run with a
+    /// unit scatter.
+    /// </summary>
+    private static void RequireIndependent(IReadOnlyList<string> parts, double[] map, int p)
+    {
+        var identity = new double[p * p];
+        for (var k = 0; k < p; k++)
+        {
+            identity[(k * p) + k] = 1;
+        }
+
+        try
+        {
+            Baseline.Create(parts, map, new double[p], identity, ScatterMethod.Classical);
+        }
+        catch (CompositionException e)
+        {
+            throw BaselineOptionsReader.Rebase(e, pointer => pointer == "/ratios" ? "/coordinates/ratios" : pointer);
         }
     }
 

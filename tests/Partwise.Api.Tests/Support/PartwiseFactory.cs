@@ -10,12 +10,14 @@ using Serilog.Events;
 namespace Partwise.Api.Tests.Support;
 
 /// <summary>
-/// The one host for HTTP tests: the real Program with optional configuration overrides (for small limits) and a
-/// sink that keeps every log event, so tests can read the completion events.
+/// The one host for HTTP tests: the real Program with optional configuration overrides (for small limits), a
+/// fresh SQLite data directory of its own (deleted with the host) so that no test sees another's data, the demo
+/// baseline off unless a test turns it on, and a sink that keeps every log event, so tests can read the
+/// completion events.
 /// </summary>
 public class PartwiseFactory : WebApplicationFactory<Program>
 {
-    private readonly IReadOnlyDictionary<string, string?> _settings;
+    private readonly Dictionary<string, string?> _settings;
 
     /// <summary>The default host: the limits as configured in code.</summary>
     public PartwiseFactory()
@@ -23,7 +25,26 @@ public class PartwiseFactory : WebApplicationFactory<Program>
     {
     }
 
-    private PartwiseFactory(IReadOnlyDictionary<string, string?> settings) => _settings = settings;
+    private PartwiseFactory(IReadOnlyDictionary<string, string?> settings)
+    {
+        DataDirectory = Path.Combine(Path.GetTempPath(), "partwise-api-tests", Guid.NewGuid().ToString("N"));
+        _settings = new Dictionary<string, string?>
+        {
+            ["Partwise:Storage:DataDirectory"] = DataDirectory,
+            ["Partwise:Demo:Enabled"] = "false",
+        };
+        foreach (var (key, value) in settings)
+        {
+            _settings[key] = value;
+        }
+    }
+
+    /// <summary>This host's SQLite data directory.</summary>
+    public string DataDirectory { get; }
+
+    /// <summary>A new host with any configuration overridden, for example <c>("Partwise:Demo:Enabled", "true")</c>.</summary>
+    public static PartwiseFactory WithSettings(params (string Key, string? Value)[] settings) =>
+        new(settings.ToDictionary(s => s.Key, s => s.Value));
 
     /// <summary>Every log event the host wrote.</summary>
     public CollectingSink Logs { get; } = new();
@@ -38,6 +59,24 @@ public class PartwiseFactory : WebApplicationFactory<Program>
         ArgumentNullException.ThrowIfNull(builder);
         builder.ConfigureAppConfiguration(c => c.AddInMemoryCollection(_settings));
         builder.ConfigureTestServices(services => services.AddSingleton<ILogEventSink>(Logs));
+    }
+
+    /// <inheritdoc />
+    public override async ValueTask DisposeAsync()
+    {
+        await base.DisposeAsync();
+        GC.SuppressFinalize(this);
+        try
+        {
+            Directory.Delete(DataDirectory, recursive: true);
+        }
+        catch (IOException)
+        {
+            // A file still open elsewhere; the temporary directory is cleaned by the system later.
+        }
+        catch (UnauthorizedAccessException)
+        {
+        }
     }
 }
 
