@@ -1,0 +1,69 @@
+#!/usr/bin/env bash
+# Load figures for the HTTP path, with Debian's wrk, on the loopback interface only:
+#   1. one-sample screening (POST /v1/baselines/{id}/screenings, each sample new, committed to SQLite with
+#      synchronous=FULL before the answer) at 1 connection: latency p50 and p99;
+#   2. GET /healthz at 16 connections: requests per second.
+#
+#   tests/load/run.sh            (PARTWISE_LOAD_SECONDS per phase, default 10; PARTWISE_LOAD_PORT, default 5482;
+#                                 PARTWISE_POSTGRES set: the store is PostgreSQL instead of a temporary SQLite file)
+#
+# Builds the service in Release (PARTWISE_LOAD_NO_BUILD=1 to reuse a build), starts it, creates the demo well-11
+# baseline (8 parts, robust scatter), runs both phases in the same run and stops the service. Figures depend on the
+# machine; compare runs on the same machine only.
+set -euo pipefail
+
+cd "$(dirname "${BASH_SOURCE[0]}")/../.."
+ROOT="$(pwd)"
+PORT="${PARTWISE_LOAD_PORT:-5482}"
+DURATION="${PARTWISE_LOAD_SECONDS:-10}"
+URL="http://127.0.0.1:$PORT"
+WRK="${WRK:-/usr/bin/wrk}"
+WORK="$(mktemp -d -t partwise-load.XXXXXX)"
+OUT="$ROOT/src/Partwise.Api/bin/Release/net10.0"
+PID=""
+
+cleanup() {
+    if [[ -n "$PID" ]] && kill -0 "$PID" 2>/dev/null; then kill "$PID" 2>/dev/null || true; wait "$PID" 2>/dev/null || true; fi
+    rm -rf "$WORK"
+}
+trap cleanup EXIT
+
+if [[ "${PARTWISE_LOAD_NO_BUILD:-}" != 1 ]]; then
+    dotnet build src/Partwise.Api/Partwise.Api.csproj -c Release --nologo -v quiet >&2
+fi
+
+if [[ -n "${PARTWISE_POSTGRES:-}" ]]; then
+    STORE=("Partwise__Storage__PostgresConnectionString=$PARTWISE_POSTGRES"); PROVIDER=postgresql
+else
+    STORE=("Partwise__Storage__DataDirectory=$WORK/data"); PROVIDER=sqlite
+fi
+
+# Warning-level logs only: one console line per request would measure the console.
+( cd "$OUT" && exec env "${STORE[@]}" Partwise__Demo__Enabled=false ASPNETCORE_ENVIRONMENT=Production \
+    Serilog__MinimumLevel__Default=Warning Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
+    dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
+PID=$!
+for _ in $(seq 1 120); do
+    curl -fsS -o /dev/null --max-time 2 "$URL/readyz" 2>/dev/null && break
+    kill -0 "$PID" 2>/dev/null || { cat "$WORK/service.log" >&2; exit 1; }
+    sleep 0.5
+done
+
+BODY="$(sed 's/"name": "well-11 2025"/"name": "load-'"$$"'"/' demo/well-11-baseline.json)"
+BASELINE="$(curl -fsS -H 'Content-Type: application/json' --data-binary "$BODY" "$URL/v1/baselines" | /usr/bin/python3 -c 'import json,sys; print(json.load(sys.stdin)["id"])')"
+
+echo "== $PROVIDER store, baseline $BASELINE, $DURATION s per phase, $(nproc) cores"
+# A short warm-up so that the JIT and the connection pool are not measured.
+PARTWISE_LOAD_PREFIX="warm$$" "$WRK" -t1 -c1 -d2s -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" >/dev/null
+"$WRK" -t1 -c4 -d2s "$URL/healthz" >/dev/null
+
+echo "== one-sample screening, 1 connection"
+PARTWISE_LOAD_PREFIX="run$$" "$WRK" -t1 -c1 -d"${DURATION}s" --latency -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" | tee "$WORK/screen.txt"
+echo "== GET /healthz, 16 connections"
+"$WRK" -t2 -c16 -d"${DURATION}s" --latency "$URL/healthz" | tee "$WORK/health.txt"
+
+p50="$(awk '$1 == "50%" {print $2}' "$WORK/screen.txt")"
+p99="$(awk '$1 == "99%" {print $2}' "$WORK/screen.txt")"
+screen_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/screen.txt")"
+health_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/health.txt")"
+echo "== summary ($PROVIDER): screening p50 $p50, p99 $p99 ($screen_rps req/s at 1 connection); /healthz $health_rps req/s at 16 connections"
