@@ -50,4 +50,13 @@ public static class ProblemTypes
 
     /// <summary>A scatter matrix that is singular, so no distance can be computed.</summary>
     public const string SingularScatter = "/problems/singular-scatter";
+
+    /// <summary>A forced ratio that adds nothing: on the data it is a combination of the ratios before it (it closes a cycle or repeats one).</summary>
+    public const string DependentRatio = "/problems/dependent-ratio";
+
+    /// <summary>A ratio set whose back-transform is not a linear system: balances together with amalgamation ratios.</summary>
+    public const string UnsupportedRatioSet = "/problems/unsupported-ratio-set";
+
+    /// <summary>Data without log-ratio variance (all compositions proportional), so no fraction of it can be explained.</summary>
+    public const string NoVariation = "/problems/no-variation";
 }
