@@ -26,7 +26,7 @@ public static class RatioSetEvaluation
     /// </returns>
     /// <remarks>
     /// All from the Gram of the augmented logs K0 (one pass over the data) and the k × k matrices S = B'K0B and
-    /// C = B'N0B, N0 = K0 F K0. A ratio is independent of those before it when its residual variance exceeds
+    /// C = B'N0B, N0 = K0 F K0 (the Procrustes sum from an SVD of E'K0B). A ratio is independent of those before it when its residual variance exceeds
     /// 1e-12 trace(K0) · (b'b / 2); the independent ones I give explained = trace(S_II⁻¹ C_II) / TV, and the unique
     /// contribution of i ∈ I is (S_II⁻¹ C_II S_II⁻¹)_ii / (S_II⁻¹)_ii / TV unless a dependent ratio leans on it.
     /// Cost: O(n M²) for K0 plus O(k³ + k M²).
@@ -119,8 +119,34 @@ public static class RatioSetEvaluation
         var procrustes = 0.0;
         if (traceS > 0)
         {
-            var eigen = Matrix<double>.Build.DenseOfArray(c).Evd(Symmetricity.Symmetric).EigenValues;
-            procrustes = Math.Clamp(eigen.Sum(e => Math.Sqrt(Math.Max(0, e.Real))) / Math.Sqrt(tv * traceS), 0, 1);
+            // Σ σ(E'K0B) from an SVD of the J × k matrix itself, not from eigenvalues of B'N0B: a dependent set has zero
+            // singular values, whose square roots would carry errors of order √ε.
+            var a = Matrix<double>.Build.Dense(j, k);
+            var kb = new double[m];
+            for (var r = 0; r < k; r++)
+            {
+                Array.Clear(kb);
+                foreach (var (col, val) in coefficients[r])
+                {
+                    for (var row = 0; row < m; row++)
+                    {
+                        kb[row] += val * k0[(row * m) + col];
+                    }
+                }
+
+                var wkb = 0.0;
+                for (var p = 0; p < j; p++)
+                {
+                    wkb += weights[p] * kb[p];
+                }
+
+                for (var p = 0; p < j; p++)
+                {
+                    a[p, r] = Math.Sqrt(weights[p]) * (kb[p] - wkb);
+                }
+            }
+
+            procrustes = Math.Clamp(a.Svd(computeVectors: false).S.Sum() / Math.Sqrt(tv * traceS), 0, 1);
         }
 
         return new RatioSetEvaluationResult(
