@@ -171,8 +171,7 @@ public class RatioReconstructionTests
     public void ValuesThatMakeTheEquationsSingularAreASingularRatioSetAtTheSetAndTheRow()
     {
         // Row 0 comes from the composition (1, 2, 3, 4). Row 1: values at which this generically invertible set's equations
-        // are singular (found by a sign change
-        // of the determinant along a line in numpy; condition number about 1e17).
+        // are singular (found in numpy by a sign change of the determinant along a line; condition number about 4e16).
         string[] parts = ["x0", "x1", "x2", "x3"];
         LogRatio[] ratios =
         [
