@@ -1,5 +1,4 @@
 using System.Globalization;
-using MathNet.Numerics.LinearAlgebra;
 using Partwise.Core.Problems;
 using Partwise.Core.Tables;
 
@@ -185,8 +184,9 @@ public static class RatioSelection
             trace += k0[(r * m) + r];
         }
 
-        var eigen = Matrix<double>.Build.Dense(m, m, (r, c) => k0[(r * m) + c]).Evd(Symmetricity.Symmetric).EigenValues;
-        var smallest = eigen.Min(e => e.Real);
+        var eigen = new double[m];
+        SymmetricEigenvalues.Compute((double[])k0.Clone(), m, eigen, new double[3 * m]);
+        var smallest = eigen.Min();
         if (smallest < -1e-10 * Math.Abs(trace) || trace < 0)
         {
             throw new CompositionException(

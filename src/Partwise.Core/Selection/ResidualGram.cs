@@ -154,10 +154,8 @@ internal sealed class ResidualGram
         Array.Clear(u);
         foreach (var (col, val) in b)
         {
-            for (var r = 0; r < m; r++)
-            {
-                u[r] += val * K[(r * m) + col];
-            }
+            // K is symmetric, so its column is its row: a contiguous update.
+            DenseKernels.AddScaled(u, val, K.AsSpan(col * m, m));
         }
 
         var c = 0.0;
@@ -182,35 +180,19 @@ internal sealed class ResidualGram
             ufu += u[a] * _t[a];
         }
 
+        var t = _t.AsSpan(0, J);
         for (var r = 0; r < m; r++)
         {
-            var row = r * m;
-            var acc = 0.0;
-            for (var a = 0; a < J; a++)
-            {
-                acc += K[row + a] * _t[a];
-            }
-
-            v[r] = acc;
+            v[r] = DenseKernels.Dot(K.AsSpan(r * m, J), t);
         }
 
         var inv = 1.0 / c;
         var quad = ufu * inv * inv;
         for (var r = 0; r < m; r++)
         {
-            var row = r * m;
             var ur = u[r];
-            var vr = v[r];
-            var kr = ur * inv;
-            var nr1 = vr * inv;
-            var nr2 = ur * inv;
-            var nr3 = ur * quad;
-            for (var s = 0; s < m; s++)
-            {
-                var us = u[s];
-                K[row + s] -= kr * us;
-                N[row + s] += (nr3 * us) - (nr1 * us) - (nr2 * v[s]);
-            }
+            DenseKernels.AddScaled(K.AsSpan(r * m, m), -ur * inv, u);
+            DenseKernels.AddScaled2(N.AsSpan(r * m, m), (ur * quad) - (v[r] * inv), u, -ur * inv, v);
         }
 
         return bn * inv;

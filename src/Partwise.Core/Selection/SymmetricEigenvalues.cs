@@ -14,7 +14,7 @@ internal static class SymmetricEigenvalues
     private const double MachineEpsilon = 2.220446049250313e-16;
 
     /// <summary>
-    /// Overwrites the k × k row-major symmetric matrix in <paramref name="a"/> (only its lower triangle is read) and
+    /// Overwrites the k × k row-major symmetric matrix in <paramref name="a"/> (both triangles are read) and
     /// writes its k eigenvalues, in no particular order, to <paramref name="eigenvalues"/>.
     /// </summary>
     /// <param name="a">At least k² values; destroyed.</param>
@@ -69,46 +69,21 @@ internal static class SymmetricEigenvalues
 
             var beta = 2.0 / vv;
 
-            // p = beta A22 v over the lower triangle, then w = p - (beta p'v / 2) v and A22 -= v w' + w v'.
+            // p = beta A22 v (row dot products over the full symmetric block), then w = p - (beta p'v / 2) v and
+            // A22 -= v w' + w v', on both triangles so that every loop runs over a contiguous row.
             var off = c + 1;
-            p[..len].Clear();
+            var vs = v[..len];
+            var ps = p[..len];
             for (var i = 0; i < len; i++)
             {
-                var row = (off + i) * k;
-                var vi = v[i];
-                var acc = 0.0;
-                for (var j = 0; j < i; j++)
-                {
-                    var aij = a[row + off + j];
-                    acc += aij * v[j];
-                    p[j] += aij * vi;
-                }
-
-                p[i] += acc + (a[row + off + i] * vi);
+                ps[i] = beta * DenseKernels.Dot(a.Slice(((off + i) * k) + off, len), vs);
             }
 
-            var pv = 0.0;
+            var half = beta * DenseKernels.Dot(ps, vs) / 2;
+            DenseKernels.AddScaled(ps, -half, vs);
             for (var i = 0; i < len; i++)
             {
-                p[i] *= beta;
-                pv += p[i] * v[i];
-            }
-
-            var half = beta * pv / 2;
-            for (var i = 0; i < len; i++)
-            {
-                p[i] -= half * v[i];
-            }
-
-            for (var i = 0; i < len; i++)
-            {
-                var row = (off + i) * k;
-                var vi = v[i];
-                var wi = p[i];
-                for (var j = 0; j <= i; j++)
-                {
-                    a[row + off + j] -= (vi * p[j]) + (wi * v[j]);
-                }
+                DenseKernels.AddScaled2(a.Slice(((off + i) * k) + off, len), -vs[i], ps, -ps[i], vs);
             }
         }
 
