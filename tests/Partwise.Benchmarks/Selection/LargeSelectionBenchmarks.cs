@@ -9,6 +9,7 @@ namespace Partwise.Benchmarks.Selection;
 /// from moments of n = 10,000 and n = 100,000 samples, whose time does not depend on n.
 /// </summary>
 [MemoryDiagnoser]
+[Config(typeof(TrendRatioConfig))]
 public class LargeSelectionBenchmarks
 {
     private CompositionTable _table = null!;

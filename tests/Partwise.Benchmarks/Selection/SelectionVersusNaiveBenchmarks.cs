@@ -9,6 +9,7 @@ namespace Partwise.Benchmarks.Selection;
 /// path against the naive refit of every candidate at every step (the baseline). Goal: at least 1000 times faster.
 /// </summary>
 [MemoryDiagnoser]
+[Config(typeof(TrendRatioConfig))]
 public class SelectionVersusNaiveBenchmarks
 {
     private CompositionTable _table = null!;
