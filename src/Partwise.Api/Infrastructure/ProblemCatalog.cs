@@ -34,6 +34,9 @@ public static class ProblemCatalog
         [ProblemTypes.SingularScatter] = (StatusCodes.Status422UnprocessableEntity, "The scatter matrix is singular"),
         [ProblemTypes.TooFewSamples] = (StatusCodes.Status422UnprocessableEntity, "There are too few reference samples"),
         [ProblemTypes.MissingPart] = (StatusCodes.Status422UnprocessableEntity, "A part is missing"),
+        [ProblemTypes.DependentRatio] = (StatusCodes.Status422UnprocessableEntity, "A ratio depends on the ones before it"),
+        [ProblemTypes.UnsupportedRatioSet] = (StatusCodes.Status422UnprocessableEntity, "The ratio set cannot be back-transformed"),
+        [ProblemTypes.NoVariation] = (StatusCodes.Status422UnprocessableEntity, "The data have no log-ratio variance"),
     };
 
     /// <summary>The HTTP status of a problem type: 422 for any type not in the table.</summary>
