@@ -35,6 +35,8 @@ def _check(answer, x, w, what):
         assert_close(w * var_clr, contributions, f"{what}: part contributions w_j var(clr_j)")
     assert_close(np.cov(clr, rowvar=False, ddof=ddof), answer["clrCovariance"], f"{what}: clr covariance (numpy.cov)")
     assert_equal((J, J), np.asarray(answer["clrCovariance"]).shape, f"{what}: clr covariance shape")
+    if "weights" in answer:  # the service also reports the part weights it used (normalised to sum 1)
+        assert_close(w, answer["weights"], f"{what}: weights used")
 
 
 def check_summary_with_equal_weights(base):

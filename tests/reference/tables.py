@@ -23,8 +23,8 @@ def positive(seed, n, J, sigma=0.9):
 
 def with_zeros(seed, n, J, rate=0.08, zero_parts=None):
     """A positive table with zeros at about `rate` of the cells of `zero_parts` (default: all parts); at least one
-    zero, at least two non-zero cells per row. Returns (table, limits): each part's detection limit is half its
-    smallest non-zero value, so every replacement stays below the observed values."""
+    zero, at least two non-zero cells per row. Returns (table, limits): each part's detection limit is at most half
+    its smallest non-zero value, so every replacement stays below the observed values."""
     rng = np.random.default_rng(seed + 7919)
     x = positive(seed, n, J)
     parts = list(range(J)) if zero_parts is None else list(zero_parts)
@@ -36,9 +36,12 @@ def with_zeros(seed, n, J, rate=0.08, zero_parts=None):
         while (~mask[i]).sum() < 2:
             mask[i, np.flatnonzero(mask[i])[0]] = False
     x[mask] = 0.0
-    # A part that is zero in every row (possible with one row) takes half the table's smallest value.
+    # A part that is zero in every row (possible with one row) takes half the table's smallest value. Limits are
+    # also kept below 2% of the smallest row total, so that the replacements of a row (at most J of them) stay well
+    # below its total, as with real detection limits; the service refuses replacements that reach a row's total.
     floor = 0.5 * x[x > 0].min()
-    limits = np.array([0.5 * x[x[:, j] > 0, j].min() if (x[:, j] > 0).any() else floor for j in range(J)])
+    cap = 0.02 * x.sum(axis=1).min()
+    limits = np.array([min(cap, 0.5 * x[x[:, j] > 0, j].min() if (x[:, j] > 0).any() else floor) for j in range(J)])
     return x, limits
 
 

@@ -72,6 +72,15 @@ public static class ProblemTypes
     /// <summary>A sample that lacks a value for one of the baseline's parts.</summary>
     public const string MissingPart = "/problems/missing-part";
 
+    /// <summary>A forced ratio that adds nothing: on the data it is a combination of the ratios before it (it closes a cycle or repeats one).</summary>
+    public const string DependentRatio = "/problems/dependent-ratio";
+
+    /// <summary>A ratio set whose back-transform is not a linear system: balances together with amalgamation ratios.</summary>
+    public const string UnsupportedRatioSet = "/problems/unsupported-ratio-set";
+
+    /// <summary>Data without log-ratio variance (all compositions proportional), so no fraction of it can be explained.</summary>
+    public const string NoVariation = "/problems/no-variation";
+
     /// <summary>The same idempotency key (a sample id under a baseline) sent again with other content (HTTP 409).</summary>
     public const string Conflict = "/problems/conflict";
 

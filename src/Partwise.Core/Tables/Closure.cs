@@ -32,24 +32,33 @@ public static class Closure
         return table.WithValues(values);
     }
 
-    /// <summary>Closes one row in place to <paramref name="total"/>; returns false when the row sums to zero.</summary>
+    /// <summary>
+    /// Closes one row in place to <paramref name="total"/>; returns false when the row sums to zero. The row is
+    /// divided by its largest value before summing, so values near the largest double do not overflow the sum.
+    /// </summary>
     public static bool CloseRow(Span<double> row, double total)
     {
+        var max = 0.0;
+        foreach (var v in row)
+        {
+            max = Math.Max(max, v);
+        }
+
+        if (!(max > 0))
+        {
+            return false;
+        }
+
         var sum = 0.0;
         foreach (var v in row)
         {
-            sum += v;
-        }
-
-        if (!(sum > 0))
-        {
-            return false;
+            sum += v / max;
         }
 
         var scale = total / sum;
         for (var k = 0; k < row.Length; k++)
         {
-            row[k] *= scale;
+            row[k] = row[k] / max * scale;
         }
 
         return true;

@@ -51,18 +51,16 @@ public static class PartWeights
                 Array.Fill(w, 1.0 / j);
                 return w;
             case "mean":
+                var closed = new double[j];
                 for (var i = 0; i < table.RowCount; i++)
                 {
-                    var row = table.Row(i);
-                    var sum = 0.0;
-                    foreach (var v in row)
+                    table.Row(i).CopyTo(closed);
+                    if (Closure.CloseRow(closed, 1.0))
                     {
-                        sum += v;
-                    }
-
-                    for (var k = 0; k < j; k++)
-                    {
-                        w[k] += row[k] / sum;
+                        for (var k = 0; k < j; k++)
+                        {
+                            w[k] += closed[k];
+                        }
                     }
                 }
 

@@ -119,4 +119,12 @@ public class WorkedExampleTests
         var result = Clr.Inverse(["a", "b"], [800, 0]);
         Tolerance.Close([1, Math.Exp(-800)], result.Values, 1e-300);
     }
+
+    [Fact]
+    public void ClosureOfValuesNearTheLargestDoubleDoesNotOverflow()
+    {
+        // Σ x overflows for three values of 1e308; the closure is still (⅓, ⅓, ⅓) × κ.
+        var closed = Closure.Close(CompositionTable.FromRows(["a", "b", "c"], [[1e308, 1e308, 1e308]]), 1e308);
+        Tolerance.Close([1e308 / 3, 1e308 / 3, 1e308 / 3], closed.Values, 0, 1e-15);
+    }
 }
