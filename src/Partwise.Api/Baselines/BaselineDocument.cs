@@ -75,7 +75,7 @@ public sealed record BaselineDocument
     /// <summary>How many reference samples the baseline itself flags (distance or rule).</summary>
     public int? ReferenceFlagged { get; init; }
 
-    /// <summary>For <c>selection</c>: the fraction of log-ratio variance the chosen ratios explain; null otherwise.</summary>
+    /// <summary>For <c>selection</c>: the fraction of the reference samples' log-ratio variance the chosen ratios explain (Greenacre 2019); null otherwise.</summary>
     [JsonIgnore(Condition = JsonIgnoreCondition.Never)]
     public double? Explained { get; init; }
 

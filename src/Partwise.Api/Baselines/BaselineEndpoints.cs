@@ -34,8 +34,9 @@ public static class BaselineEndpoints
                 "χ²_p(`cutoff`) on d² (default cutoff 0.975, strictly inside (0, 1), else 422 `/problems/invalid-option`). " +
                 "Fewer than p + 1 reference samples is a 422 `/problems/too-few-samples`; a singular scatter (a constant " +
                 "ratio, identical samples) a 422 `/problems/singular-scatter`; rules on unknown parts a 422 " +
-                "`/problems/unknown-part`. `selection` coordinates are refused with 422 `/problems/invalid-option` in " +
-                "this version. Answers 201 with `Location` and the document, which is immutable; a refit under the same " +
+                "`/problems/unknown-part`. `selection` coordinates are the pairwise ratios that stepwise selection " +
+                "(Greenacre 2019, equal part weights) chooses on the reference samples, up to `maxRatios` or until " +
+                "`explained` of the log-ratio variance is explained; `explained` is reported. Answers 201 with `Location` and the document, which is immutable; a refit under the same " +
                 "`name` gets the next `version`. The zero policy is stored and applied to every screened sample. The " +
                 "table also comes as text/csv with `name`, `description`, `scatter`, `cutoff` and the zero policy as " +
                 "query parameters (ilr coordinates only)." + Caution)

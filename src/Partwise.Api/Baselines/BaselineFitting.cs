@@ -4,8 +4,10 @@ using Partwise.Api.Shapes;
 using Partwise.Core.Problems;
 using Partwise.Core.Ratios;
 using Partwise.Core.Screening;
+using Partwise.Core.Selection;
 using Partwise.Core.Tables;
 using Partwise.Core.Transforms;
+using Partwise.Core.Variance;
 using Partwise.Core.Zeros;
 
 namespace Partwise.Api.Baselines;
@@ -52,9 +54,9 @@ public static class BaselineFitting
         var cutoff = request.Cutoff ?? Baseline.DefaultCutoff;
         var rules = BaselineOptionsReader.Rules(request.Rules, parts, "/rules");
         var amalgamations = BaselineOptionsReader.Amalgamations(request.Amalgamations, parts, "/amalgamations");
-        var (type, map, ratios, basis) = Coordinates(request.Coordinates, parts);
         var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
         var reference = zeros.Table;
+        var (type, map, ratios, basis, explained) = Coordinates(request.Coordinates, reference);
         var p = map.Length / parts.Count;
         var coordinates = Project(reference, map, p);
         var named = NamedRatios(amalgamations, parts);
@@ -94,7 +96,7 @@ public static class BaselineFitting
             DegreesOfFreedom = baseline.DegreesOfFreedom,
             ReferenceCount = fitted.ReferenceCount,
             ReferenceFlagged = fitted.ReferenceFlagged,
-            Explained = null,
+            Explained = explained,
             Rules = BaselineOptionsReader.RuleItems(baseline.Rules, parts),
             Amalgamations = request.Amalgamations is null ? null : amalgamations.ToDictionary(a => a.Key, a => (IReadOnlyList<string>)[.. a.Value.Select(j => parts[j])], StringComparer.Ordinal),
             NamedRatios = [.. baseline.NamedRatios.Select((r, k) => new NamedRatioItem(r.Ratio.Label, NamedPairs(amalgamations)[k].Num, NamedPairs(amalgamations)[k].Den, r.Location, r.Scale))],
@@ -169,13 +171,14 @@ public static class BaselineFitting
             : throw new CompositionException(ProblemTypes.InvalidInput, "/name", string.Create(CultureInfo.InvariantCulture, $"The name has {name.Length} characters; at most {MaxNameLength}."));
     }
 
-    private static (string Type, double[] Map, LogRatio[]? Ratios, IlrBasis? Basis) Coordinates(BaselineCoordinatesOption? option, IReadOnlyList<string> parts)
+    private static (string Type, double[] Map, LogRatio[]? Ratios, IlrBasis? Basis, double? Explained) Coordinates(BaselineCoordinatesOption? option, CompositionTable reference)
     {
+        var parts = reference.Parts;
         switch (option?.Type ?? (option is null ? "ilr" : null))
         {
             case "ilr":
                 var basis = PivotBasis.Create(parts);
-                return ("ilr", basis.Coefficients, null, basis);
+                return ("ilr", basis.Coefficients, null, basis, null);
             case "ratios":
                 if (option!.Ratios is not { Count: > 0 } list)
                 {
@@ -190,14 +193,55 @@ public static class BaselineFitting
                 var ratios = list.Select((r, k) => BaselineOptionsReader.CoordinateRatio(r, parts, string.Create(CultureInfo.InvariantCulture, $"/coordinates/ratios/{k}"))).ToArray();
                 var map = RatioMap(ratios, parts.Count);
                 RequireIndependent(parts, map, ratios.Length);
-                return ("ratios", map, ratios, null);
+                return ("ratios", map, ratios, null, null);
             case "selection":
-                throw new CompositionException(ProblemTypes.InvalidOption, "/coordinates/type", "selection baselines arrive with the ratio-selection engine; use ilr or ratios coordinates for now.");
+                var (selected, explained) = Select(option!, reference);
+                return ("selection", RatioMap(selected, parts.Count), selected, null, explained);
             case null:
                 throw new CompositionException(ProblemTypes.InvalidInput, "/coordinates/type", "The coordinates need \"type\": ilr, ratios or selection.");
             default:
                 throw new CompositionException(ProblemTypes.InvalidInput, "/coordinates/type", $"The coordinates type '{option!.Type}' is unknown; use ilr, ratios or selection.");
         }
+    }
+
+    /// <summary>
+    /// Stepwise selection of pairwise log-ratios on the reference samples (Greenacre 2019, Math. Geosci. 51:649-682),
+    /// with equal part weights: the chosen ratios become the coordinates and the last step's cumulative fraction is
+    /// <c>explained</c>. Only pairwise candidates enter, since an amalgamation ratio is not linear in the logs and so
+    /// cannot be a coordinate; named amalgamations serve as reasons (the request's <c>amalgamations</c>).
+    /// </summary>
+    private static (LogRatio[] Ratios, double Explained) Select(BaselineCoordinatesOption option, CompositionTable reference)
+    {
+        if (option.Amalgamations is { Count: > 0 })
+        {
+            throw new CompositionException(
+                ProblemTypes.InvalidOption,
+                "/coordinates/amalgamations",
+                "A selection baseline chooses pairwise ratios only: an amalgamation ratio is not linear in the logs and cannot be a coordinate. Give named amalgamations as the request's top-level \"amalgamations\"; their ratios then serve as reasons.");
+        }
+
+        RatioSelectionResult result;
+        try
+        {
+            var weights = PartWeights.Resolve(PartWeightSpec.Equal, reference);
+            result = RatioSelection.Run(reference, weights, new RatioSelectionOptions { MaxRatios = option.MaxRatios, Explained = option.Explained });
+        }
+        catch (CompositionException e)
+        {
+            throw BaselineOptionsReader.Rebase(e, pointer => pointer switch
+            {
+                "/stop/maxRatios" => "/coordinates/maxRatios",
+                "/stop/explained" => "/coordinates/explained",
+                _ => pointer,
+            });
+        }
+
+        if (result.Steps.Count == 0)
+        {
+            throw new CompositionException(ProblemTypes.InvalidOption, "/coordinates", "The selection chose no ratio, so the baseline would have no coordinates.");
+        }
+
+        return ([.. result.Steps.Select(s => s.Ratio)], result.Steps[^1].Explained);
     }
 
     /// <summary>

@@ -80,7 +80,7 @@ public sealed record BaselineRequest : ITableRequest<BaselineRequest>
 
 /// <summary>
 /// The coordinates of a baseline: <c>ilr</c> (pivot basis, J − 1 coordinates; the default), <c>ratios</c> (an
-/// expert's pairwise and balance log-ratios) or <c>selection</c> (ratios chosen by stepwise selection).
+/// expert's pairwise and balance log-ratios) or <c>selection</c> (pairwise ratios chosen by stepwise selection).
 /// </summary>
 public sealed record BaselineCoordinatesOption
 {
@@ -92,13 +92,16 @@ public sealed record BaselineCoordinatesOption
     /// <summary>For <c>ratios</c>: pairwise and balance log-ratios, linearly independent. Amalgamations are not linear in the logs and cannot be coordinates (use them in rules or named amalgamations).</summary>
     public IReadOnlyList<RatioOption>? Ratios { get; init; }
 
-    /// <summary>For <c>selection</c>: the most ratios to choose.</summary>
+    /// <summary>For <c>selection</c>: the most ratios to choose, 1 to J − 1; default J − 1.</summary>
     public int? MaxRatios { get; init; }
 
     /// <summary>For <c>selection</c>: stop once this fraction of the log-ratio variance is explained, in (0, 1].</summary>
     public double? Explained { get; init; }
 
-    /// <summary>For <c>selection</c>: named amalgamations (name to parts) among the candidates.</summary>
+    /// <summary>
+    /// Not taken for <c>selection</c> (a 422): selection baselines choose pairwise ratios only, since amalgamation
+    /// ratios are not linear in the logs. Give named amalgamations as the request's <c>amalgamations</c> instead.
+    /// </summary>
     public IReadOnlyDictionary<string, IReadOnlyList<string>>? Amalgamations { get; init; }
 }
 

@@ -216,12 +216,42 @@ public class BaselineTests(PartwiseFactory factory) : IClassFixture<PartwiseFact
     }
 
     [Fact]
-    public async Task SelectionCoordinatesAreRefusedUntilTheSelectionEngineArrives()
+    public async Task SelectionCoordinatesAreTheChosenPairwiseRatiosWithTheFractionExplained()
     {
         using var client = factory.CreateClient();
-        using var response = await client.PostJson("/v1/baselines", BaselineBodies.Request("selection", "\"coordinates\": {\"type\": \"selection\", \"maxRatios\": 2}"));
-        var problem = await response.Problem(422, "/problems/invalid-option", "/coordinates/type");
-        Assert.Contains("ratio-selection engine", problem.GetProperty("detail").GetString(), StringComparison.Ordinal);
+        var full = await BaselineBodies.Create(client, BaselineBodies.Request("selection-full", "\"scatter\": \"classical\", \"coordinates\": {\"type\": \"selection\"}"));
+        Assert.Equal("selection", full.GetProperty("coordinates").GetProperty("type").GetString());
+        Assert.Equal(2, full.GetProperty("ratios").GetArrayLength());
+        Assert.All(full.GetProperty("ratios").EnumerateArray(), r => Assert.Equal("pairwise", r.GetProperty("kind").GetString()));
+        Assert.Equal(JsonValueKind.Null, full.GetProperty("basis").ValueKind);
+        // J − 1 pairwise ratios forming a tree explain all of the log-ratio variance (Greenacre 2019).
+        Tolerance.Close(1.0, full.GetProperty("explained").GetDouble(), 1e-9, 1e-9, "explained");
+        // Full-rank coordinates: the distance is the hand-computed one in alr coordinates (Filzmoser & Hron 2008).
+        var id = full.GetProperty("id").GetString()!;
+        var result = (await BaselineBodies.Screen(client, id, "{\"sample\": " + BaselineBodies.Sample("sel", 9, 1, 1) + "}")).GetProperty("results")[0];
+        Tolerance.Close(BaselineBodies.HandSquaredDistance(9, 1, 1), result.GetProperty("squaredDistance").GetDouble(), 1e-10, 1e-9);
+
+        var one = await BaselineBodies.Create(client, BaselineBodies.Request("selection-one", "\"scatter\": \"classical\", \"coordinates\": {\"type\": \"selection\", \"maxRatios\": 1}"));
+        Assert.Equal(1, one.GetProperty("ratios").GetArrayLength());
+        Assert.Equal(1, one.GetProperty("degreesOfFreedom").GetInt32());
+        var explained = one.GetProperty("explained").GetDouble();
+        Assert.True(explained is > 0 and < 1, $"explained {explained}");
+    }
+
+    [Fact]
+    public async Task ASelectionBaselineRefusesAmalgamationsAsCandidates()
+    {
+        using var client = factory.CreateClient();
+        using var response = await client.PostJson("/v1/baselines", BaselineBodies.Request("selection-amalgamations", "\"coordinates\": {\"type\": \"selection\", \"amalgamations\": {\"ab\": [\"a\", \"b\"]}}"));
+        await response.Problem(422, "/problems/invalid-option", "/coordinates/amalgamations");
+    }
+
+    [Fact]
+    public async Task ASelectionStopOutOfRangeIs422AtTheOption()
+    {
+        using var client = factory.CreateClient();
+        using var response = await client.PostJson("/v1/baselines", BaselineBodies.Request("selection-stop", "\"coordinates\": {\"type\": \"selection\", \"explained\": 1.5}"));
+        await response.Problem(422, "/problems/invalid-option", "/coordinates/explained");
     }
 
     [Theory]
