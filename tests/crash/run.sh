@@ -4,7 +4,7 @@
 #   tests/crash/run.sh [sqlite|postgres] [rounds]
 #
 # Builds the service in Release, starts it on 127.0.0.1 (a temporary SQLite data directory, or PostgreSQL from
-# $PARTWISE_POSTGRES), creates a baseline, streams single screenings from 4 workers while recording every
+# $PARTWISE_POSTGRES, in a schema of its own that is dropped at the end), creates a baseline, streams single screenings from 4 workers while recording every
 # acknowledged sample id, kills the service with SIGKILL after a few seconds, restarts it, and re-posts every
 # acknowledged sample: each must come back as duplicate: true with the same distance and flag id. Repeats for
 # `rounds` rounds (default 2) on the same store. Prints "N passed, N failed"; exits non-zero on any loss.
@@ -23,11 +23,13 @@ PY=/usr/bin/python3
 WORK="$(mktemp -d -t partwise-crash.XXXXXX)"
 OUT="$ROOT/src/Partwise.Api/bin/Release/net10.0"
 PID=""
+PG_SCHEMA=""
 
 say() { printf 'crash(%s): %s\n' "$PROVIDER" "$*" >&2; }
 
 cleanup() {
     if [[ -n "$PID" ]] && kill -0 "$PID" 2>/dev/null; then kill "$PID" 2>/dev/null || true; wait "$PID" 2>/dev/null || true; fi
+    if [[ -n "$PG_SCHEMA" ]]; then pg_schema_drop "$PG_SCHEMA"; fi
     rm -rf "$WORK"
 }
 trap cleanup EXIT
@@ -36,7 +38,11 @@ case "$PROVIDER" in
     sqlite) STORE_ENV=("Partwise__Storage__DataDirectory=$WORK/data") ;;
     postgres)
         if [[ -z "${PARTWISE_POSTGRES:-}" ]]; then say "PARTWISE_POSTGRES is not set"; echo "0 passed, 1 failed"; exit 1; fi
-        STORE_ENV=("Partwise__Storage__PostgresConnectionString=$PARTWISE_POSTGRES") ;;
+        # shellcheck source=tests/crash/pg-schema.sh
+        source tests/crash/pg-schema.sh
+        PG_SCHEMA="partwise_crash_$$"
+        CONNECTION="$(pg_schema_create "$PG_SCHEMA")" || { echo "0 passed, 1 failed"; exit 1; }
+        STORE_ENV=("Partwise__Storage__PostgresConnectionString=$CONNECTION") ;;
     *) echo "usage: $0 [sqlite|postgres] [rounds]" >&2; exit 2 ;;
 esac
 

@@ -5,7 +5,8 @@
 #   2. GET /healthz at 16 connections: requests per second.
 #
 #   tests/load/run.sh            (PARTWISE_LOAD_SECONDS per phase, default 10; PARTWISE_LOAD_PORT, default 5482;
-#                                 PARTWISE_POSTGRES set: the store is PostgreSQL instead of a temporary SQLite file)
+#                                 PARTWISE_POSTGRES set: the store is PostgreSQL, in a schema of its own dropped at
+#                                 the end, instead of a temporary SQLite file)
 #
 # Builds the service in Release (PARTWISE_LOAD_NO_BUILD=1 to reuse a build), starts it, creates the demo well-11
 # baseline (8 parts, robust scatter), runs both phases in the same run and stops the service. Figures depend on the
@@ -21,9 +22,11 @@ WRK="${WRK:-/usr/bin/wrk}"
 WORK="$(mktemp -d -t partwise-load.XXXXXX)"
 OUT="$ROOT/src/Partwise.Api/bin/Release/net10.0"
 PID=""
+PG_SCHEMA=""
 
 cleanup() {
     if [[ -n "$PID" ]] && kill -0 "$PID" 2>/dev/null; then kill "$PID" 2>/dev/null || true; wait "$PID" 2>/dev/null || true; fi
+    if [[ -n "$PG_SCHEMA" ]]; then pg_schema_drop "$PG_SCHEMA"; fi
     rm -rf "$WORK"
 }
 trap cleanup EXIT
@@ -33,7 +36,11 @@ if [[ "${PARTWISE_LOAD_NO_BUILD:-}" != 1 ]]; then
 fi
 
 if [[ -n "${PARTWISE_POSTGRES:-}" ]]; then
-    STORE=("Partwise__Storage__PostgresConnectionString=$PARTWISE_POSTGRES"); PROVIDER=postgresql
+    # shellcheck source=tests/crash/pg-schema.sh
+    source tests/crash/pg-schema.sh
+    PG_SCHEMA="partwise_load_$$"
+    CONNECTION="$(pg_schema_create "$PG_SCHEMA")"
+    STORE=("Partwise__Storage__PostgresConnectionString=$CONNECTION"); PROVIDER=postgresql
 else
     STORE=("Partwise__Storage__DataDirectory=$WORK/data"); PROVIDER=sqlite
 fi
