@@ -60,7 +60,8 @@ public static class BaselineEndpoints
             .WithSummary("List the stored baselines")
             .WithDescription(
                 "Every stored baseline document, the most recently created first, retired ones included (with " +
-                "`retiredAt` set) unless `active=true`." + Caution);
+                "`retiredAt` set) unless `active=true`. Any other value of `active` is a 400 pointing at `/active`." + Caution)
+            .ProducesProblem(StatusCodes.Status400BadRequest);
 
         group.MapGet("/{id}", Get)
             .WithName("GetBaseline")

@@ -12,7 +12,8 @@ public static class OpenApiSetup
     /// <summary>The short description at the top of the document.</summary>
     public const string Description =
         "Compositional data analysis over HTTP: closure and zero handling, log-ratio coordinates (clr, alr, ilr, " +
-        "pairwise, expert ratio sets) and their inverses, summaries of log-ratio variance, and Aitchison distances. " +
+        "pairwise, expert ratio sets) and their inverses, summaries of log-ratio variance, Aitchison distances, and " +
+        "stored screening baselines with idempotent screening and a queue of flags for review. " +
         "Every table endpoint takes JSON or text/csv and answers in JSON, or text/csv when `Accept` asks for it. " +
         "Errors are RFC 9457 problem documents with JSON pointers into the request.\n\n" +
         "Screening flags, where this service gives them, are statistical signals for review by a qualified analyst, " +
@@ -37,6 +38,7 @@ public static class OpenApiSetup
             options.SchemaFilter<ContractSchemaFilter>();
             options.OperationFilter<CsvOperationFilter>();
             options.OperationFilter<EndpointTextFilter>();
+            options.OperationFilter<Flags.FlagListOperationFilter>();
             OpenApiSchemas.MapShapes(options);
         });
         services.Configure<SwaggerOptions>(o => o.OpenApiVersion = OpenApiSpecVersion.OpenApi3_1);
