@@ -54,12 +54,18 @@ public sealed class StorageOptionsValidator : IValidateOptions<StorageOptions>
 /// Hands out the store once its schema is migrated. The migration runs at start; when the database cannot be
 /// reached then, the service starts anyway (readiness says so) and every request that needs the store tries the
 /// migration again, so the service recovers as soon as the database returns. No connection is cached: the store
-/// opens a pooled connection per unit of work.
+/// opens a pooled connection per unit of work. While the database is down, one attempt is made per
+/// <see cref="RetryInterval"/>; requests in between fail at once instead of queueing behind connection timeouts.
 /// </summary>
-public sealed partial class StoreAccess(PartwiseStorage storage, ILogger<StoreAccess> logger)
+public sealed partial class StoreAccess(PartwiseStorage storage, ILogger<StoreAccess> logger, TimeProvider? clock = null)
 {
+    /// <summary>The least time between two migration attempts while the database cannot be reached.</summary>
+    public static readonly TimeSpan RetryInterval = TimeSpan.FromSeconds(1);
+
     private readonly SemaphoreSlim gate = new(1, 1);
+    private readonly TimeProvider time = clock ?? TimeProvider.System;
     private volatile bool migrated;
+    private (DateTimeOffset At, string Reason)? lastFailure;
 
     /// <summary>The store, migrated.</summary>
     /// <exception cref="StorageUnavailableException">The database cannot be reached (the host answers 503).</exception>
@@ -75,9 +81,23 @@ public sealed partial class StoreAccess(PartwiseStorage storage, ILogger<StoreAc
         {
             if (!migrated)
             {
-                var version = await storage.MigrateAsync(cancellationToken).ConfigureAwait(false);
-                migrated = true;
-                LogMigrated(logger, storage.Provider, version);
+                if (lastFailure is { } failure && time.GetUtcNow() - failure.At < RetryInterval)
+                {
+                    throw new StorageUnavailableException(failure.Reason);
+                }
+
+                try
+                {
+                    var version = await storage.MigrateAsync(cancellationToken).ConfigureAwait(false);
+                    migrated = true;
+                    lastFailure = null;
+                    LogMigrated(logger, storage.Provider, version);
+                }
+                catch (StorageUnavailableException e)
+                {
+                    lastFailure = (time.GetUtcNow(), e.Message);
+                    throw;
+                }
             }
         }
         finally

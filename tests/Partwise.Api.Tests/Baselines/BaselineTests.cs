@@ -300,6 +300,16 @@ public class BaselineTests(PartwiseFactory factory) : IClassFixture<PartwiseFact
         var v = BaselineBodies.Rows.Select(r => Math.Log((r[0] + r[1]) / r[2])).ToArray();
         var mean = v.Average();
         Tolerance.Close(mean, named[0].GetProperty("location").GetDouble(), 1e-12, 1e-10);
-        Tolerance.Close(Math.Sqrt(v.Sum(x => (x - mean) * (x - mean)) / (v.Length - 1)), named[0].GetProperty("scale").GetDouble(), 1e-12, 1e-10);
+        var scale = Math.Sqrt(v.Sum(x => (x - mean) * (x - mean)) / (v.Length - 1));
+        Tolerance.Close(scale, named[0].GetProperty("scale").GetDouble(), 1e-12, 1e-10);
+
+        // A sample far out in (a + b) / c: the named ratio is a reason, with z = (ln r − mean) / sd, stored or inline.
+        var id = doc.GetProperty("id").GetString()!;
+        var body = "\"sample\": " + BaselineBodies.Sample("named-far", 6, 6, 0.5);
+        var stored = (await BaselineBodies.Screen(client, id, "{" + body + "}")).GetProperty("results")[0];
+        var reason = Assert.Single(stored.GetProperty("reasons").EnumerateArray(), r => r.GetProperty("label").GetString() == "ab/cc");
+        Tolerance.Close((Math.Log(12 / 0.5) - mean) / scale, reason.GetProperty("z").GetDouble(), 1e-9, 1e-9, "z");
+        using var inline = await client.PostJson("/v1/screenings", "{\"baseline\": " + doc.GetRawText() + ", " + body + "}");
+        Assert.True(JsonElement.DeepEquals(stored.GetProperty("reasons"), (await inline.OkJson()).GetProperty("results")[0].GetProperty("reasons")));
     }
 }
