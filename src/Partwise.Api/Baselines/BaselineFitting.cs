@@ -58,7 +58,8 @@ public static class BaselineFitting
         var reference = zeros.Table;
         var (type, map, ratios, basis, explained) = Coordinates(request.Coordinates, reference);
         var p = map.Length / parts.Count;
-        var coordinates = Project(reference, map, p);
+        // The reference samples' coordinates y = (ln x) A, by the math library's own transforms.
+        var coordinates = basis is not null ? Ilr.Forward(reference, basis).Values : RatioSetTransform.Forward(reference, ratios!).Values;
         var named = NamedRatios(amalgamations, parts);
 
         FittedBaseline fitted;
@@ -102,38 +103,6 @@ public static class BaselineFitting
             NamedRatios = [.. baseline.NamedRatios.Select((r, k) => new NamedRatioItem(r.Ratio.Label, NamedPairs(amalgamations)[k].Num, NamedPairs(amalgamations)[k].Den, r.Location, r.Scale))],
         };
         return new PendingBaseline(name, fitted, document, table);
-    }
-
-    /// <summary>y = (ln x) A for each row of a strictly positive table: n × p, row-major.</summary>
-    public static double[] Project(CompositionTable table, double[] map, int p)
-    {
-        ArgumentNullException.ThrowIfNull(table);
-        ArgumentNullException.ThrowIfNull(map);
-        var n = table.RowCount;
-        var j = table.PartCount;
-        var result = new double[n * p];
-        var logs = new double[j];
-        for (var i = 0; i < n; i++)
-        {
-            var row = table.Row(i);
-            for (var k = 0; k < j; k++)
-            {
-                logs[k] = Math.Log(row[k]);
-            }
-
-            for (var c = 0; c < p; c++)
-            {
-                double sum = 0;
-                for (var k = 0; k < j; k++)
-                {
-                    sum += logs[k] * map[(k * p) + c];
-                }
-
-                result[(i * p) + c] = sum;
-            }
-        }
-
-        return result;
     }
 
     /// <summary>The ordered pairs of disjoint named amalgamations (first before second in the given order): the named ratios.</summary>

@@ -69,7 +69,7 @@ public sealed partial class DemoBaseline(IOptions<DemoOptions> options, IHostEnv
     /// <inheritdoc />
     public Task StopAsync(CancellationToken cancellationToken) => Task.CompletedTask;
 
-    [LoggerMessage(Level = LogLevel.Information, Message = "Demo baseline {BaselineId} ('{Name}', invented data) {State}: post demo/well-11-screenings.json to /v1/baselines/<that id>/screenings")]
+    [LoggerMessage(Level = LogLevel.Information, Message = "Demo baseline {BaselineId} {Name} (invented data) {State}: post demo/well-11-screenings.json to /v1/baselines/<that id>/screenings")]
     private static partial void LogDemo(ILogger logger, string baselineId, string name, string state);
 
     [LoggerMessage(Level = LogLevel.Warning, Message = "Demo baseline not loaded, storage unavailable: {Reason}")]
