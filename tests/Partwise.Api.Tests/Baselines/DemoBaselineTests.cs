@@ -26,6 +26,33 @@ public class DemoBaselineTests
     }
 
     [Fact]
+    public async Task ARestartOnTheSameStoreDoesNotLoadTheDemoBaselineAgain()
+    {
+        var directory = Path.Combine(Path.GetTempPath(), "partwise-demo-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            string first;
+            await using (var factory = PartwiseFactory.WithSettings(("Partwise:Demo:Enabled", "true"), ("Partwise:Storage:DataDirectory", directory)))
+            {
+                using var client = factory.CreateClient();
+                using var list = await client.GetAsync(new Uri("/v1/baselines", UriKind.Relative));
+                first = Assert.Single((await list.OkJson()).GetProperty("items").EnumerateArray()).GetProperty("id").GetString()!;
+            }
+
+            await using (var factory = PartwiseFactory.WithSettings(("Partwise:Demo:Enabled", "true"), ("Partwise:Storage:DataDirectory", directory)))
+            {
+                using var client = factory.CreateClient();
+                using var list = await client.GetAsync(new Uri("/v1/baselines", UriKind.Relative));
+                Assert.Equal(first, Assert.Single((await list.OkJson()).GetProperty("items").EnumerateArray()).GetProperty("id").GetString());
+            }
+        }
+        finally
+        {
+            Directory.Delete(directory, recursive: true);
+        }
+    }
+
+    [Fact]
     public async Task TheDemoBaselineIsOffInTestsByDefault()
     {
         await using var factory = new PartwiseFactory();
