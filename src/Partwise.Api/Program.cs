@@ -1,7 +1,9 @@
+using Partwise.Api.Analysis;
 using Partwise.Api.Coordinates;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
+using Partwise.Api.Selection;
 using Partwise.Api.Summary;
 
 var builder = WebApplication.CreateBuilder(args);
@@ -24,5 +26,7 @@ app.UsePartwiseOpenApi();
 app.MapHealth();
 app.MapCoordinates();
 app.MapSummary();
+app.MapSelection();
+app.MapAnalysis();
 
 app.Run();

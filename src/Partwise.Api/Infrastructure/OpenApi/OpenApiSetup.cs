@@ -36,6 +36,7 @@ public static class OpenApiSetup
             options.SchemaFilter<ProblemDetailsSchemaFilter>();
             options.SchemaFilter<ContractSchemaFilter>();
             options.OperationFilter<CsvOperationFilter>();
+            options.OperationFilter<PictureOperationFilter>();
             options.OperationFilter<EndpointTextFilter>();
             OpenApiSchemas.MapShapes(options);
         });
