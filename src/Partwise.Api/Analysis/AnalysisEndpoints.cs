@@ -30,7 +30,8 @@ public static class AnalysisEndpoints
                 "`/problems/invalid-option` at `/dimensions`. Data without log-ratio variance: 422 `/problems/no-variation`.\n\n" +
                 "`Accept: image/svg+xml` answers with the biplot of dimensions 1 and 2 (computed whatever `dimensions` says, " +
                 "so it needs J ≥ 3 and n ≥ 3): samples as points at their principal coordinates, parts as labelled arrows from " +
-                "the origin at their standard coordinates times one factor that fits them to the samples (the factor is in " +
+                "the origin in the directions of their standard coordinates, drawn at their contribution coordinates √w_j × standard " +
+                "(so that rare parts do not swamp the picture) times one factor that fits them to the samples (the factor is in " +
                 "the picture's description), axis titles with each dimension's inertia in percent. The table comes as JSON " +
                 "or text/csv (options as query parameters); tables over the part or row limits are 413 `/problems/too-large`.")
             .AcceptsTable<LraRequest>(

@@ -5,22 +5,23 @@ namespace Partwise.Api.Analysis;
 
 /// <summary>
 /// The biplot of dimensions 1 and 2 of a log-ratio analysis (Greenacre &amp; Lewi 2009): samples as points at their
-/// principal coordinates, parts as arrows from the origin at their standard coordinates times one factor that fits
-/// them to the samples. Both axes share one scale, so distances and angles read true.
+/// principal coordinates, parts as arrows from the origin in the directions of their standard coordinates, drawn at
+/// their contribution coordinates √w_j × standard (Greenacre 2013, J. Comput. Graph. Stat. 22:107-122, from memory) times
+/// one factor that fits them to the samples, so that rare parts with large standard coordinates do not swamp the
+/// picture. Both axes share one scale, so distances and angles read true.
 /// </summary>
 public static class LraBiplot
 {
     private const double Width = 720;
-    private const double Height = 600;
-    private const double Left = 80, Right = 690, Top = 56, Bottom = 530;
+    private const double Left = 80, Right = 690, Top = 56;
 
     /// <summary>The SVG document for <paramref name="result"/>, which must have at least two dimensions.</summary>
     public static string Render(LraResponse result)
     {
         ArgumentNullException.ThrowIfNull(result);
         var rows = result.Rows.Principal;
-        var parts = result.Parts.Standard;
         var names = result.Parts.Names;
+        var parts = result.Parts.Standard.Select((p, j) => new[] { p[0] * Math.Sqrt(result.Weights[j]), p[1] * Math.Sqrt(result.Weights[j]) }).ToArray();
 
         // Arrows get one factor: their longest reaches 90% of the farthest sample (common practice for form biplots).
         double sampleReach = rows.Select(r => Math.Sqrt((r[0] * r[0]) + (r[1] * r[1]))).DefaultIfEmpty(0).Max();
@@ -35,25 +36,29 @@ public static class LraBiplot
         xMax += padX;
         yMin -= padY;
         yMax += padY;
-        var scale = Math.Min((Right - Left) / (xMax - xMin), (Bottom - Top) / (yMax - yMin));
+        // The plot's height follows the data's aspect (within limits), so that one scale serves both axes without waste.
+        var plotHeight = Math.Clamp((Right - Left) * (yMax - yMin) / (xMax - xMin), 280, 560);
+        var bottom = Top + plotHeight;
+        var height = bottom + 72;
+        var scale = Math.Min((Right - Left) / (xMax - xMin), plotHeight / (yMax - yMin));
 
         // Centre the data in the plot area; the spare room on the longer side widens that axis's range.
         double xMid = (xMin + xMax) / 2, yMid = (yMin + yMax) / 2;
-        double halfX = (Right - Left) / 2 / scale, halfY = (Bottom - Top) / 2 / scale;
+        double halfX = (Right - Left) / 2 / scale, halfY = plotHeight / 2 / scale;
         xMin = xMid - halfX;
         xMax = xMid + halfX;
         yMin = yMid - halfY;
         yMax = yMid + halfY;
         double X(double v) => Left + ((v - xMin) * scale);
-        double Y(double v) => Bottom - ((v - yMin) * scale);
+        double Y(double v) => bottom - ((v - yMin) * scale);
 
         var axis1 = AxisTitle(1, result.Inertia[0]);
         var axis2 = AxisTitle(2, result.Inertia[1]);
         var description = string.Create(
             CultureInfo.InvariantCulture,
             $"Log-ratio analysis biplot of {rows.Length} samples and {names.Count} parts. {axis1}; {axis2}. " +
-            $"Points are samples at their principal coordinates; arrows are parts at their standard coordinates times {factor:G4}.");
-        var svg = new SvgCanvas(Width, Height, "Log-ratio analysis biplot", description);
+            $"Points are samples at their principal coordinates; arrows are parts in the directions of their standard coordinates, at their contribution coordinates (square root of the part weight times standard) times {factor:G4}.");
+        var svg = new SvgCanvas(Width, height, "Log-ratio analysis biplot", description);
         svg.ArrowMarker("part-arrow");
         svg.Text(Left, 30, "Log-ratio analysis biplot", "title");
 
@@ -62,8 +67,8 @@ public static class LraBiplot
         var yTicks = Ticks.Between(yMin, yMax);
         foreach (var t in xTicks)
         {
-            svg.Line(X(t), Bottom, X(t), Bottom + 5, "tick");
-            svg.Text(X(t), Bottom + 19, Ticks.Label(t, xTicks), null, "middle");
+            svg.Line(X(t), bottom, X(t), bottom + 5, "tick");
+            svg.Text(X(t), bottom + 19, Ticks.Label(t, xTicks), null, "middle");
         }
 
         foreach (var t in yTicks)
@@ -72,11 +77,11 @@ public static class LraBiplot
             svg.Text(Left - 8, Y(t) + 4, Ticks.Label(t, yTicks), null, "end");
         }
 
-        svg.Line(X(0), Top, X(0), Bottom, "origin");
+        svg.Line(X(0), Top, X(0), bottom, "origin");
         svg.Line(Left, Y(0), Right, Y(0), "origin");
-        svg.Rect(Left, Top, Right - Left, Bottom - Top, "frame");
-        svg.Text((Left + Right) / 2, Bottom + 44, axis1, "axis-title", "middle");
-        svg.Text(Left - 52, (Top + Bottom) / 2, axis2, "axis-title", "middle", -90);
+        svg.Rect(Left, Top, Right - Left, bottom - Top, "frame");
+        svg.Text((Left + Right) / 2, bottom + 44, axis1, "axis-title", "middle");
+        svg.Text(Left - 52, (Top + bottom) / 2, axis2, "axis-title", "middle", -90);
         svg.EndGroup();
 
         svg.BeginGroup("samples", "Samples");
@@ -103,7 +108,7 @@ public static class LraBiplot
         }
 
         svg.EndGroup();
-        svg.Text(Left, Height - 12, string.Create(CultureInfo.InvariantCulture, $"Arrows: part standard coordinates × {factor:G3}."), "note");
+        svg.Text(Left, height - 12, string.Create(CultureInfo.InvariantCulture, $"Arrows: part contribution coordinates √w × standard, × {factor:G3}."), "note");
         return svg.ToString();
     }
 

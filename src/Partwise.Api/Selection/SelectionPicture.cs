@@ -33,7 +33,10 @@ public static class SelectionPicture
 
     private static void DrawGraph(SvgCanvas svg, RatioSelectionResponse result)
     {
-        const double cx = 230, cy = 250, radius = 160, nodeRadius = 22;
+        const double cx = 230, cy = 250, radius = 160;
+
+        // Each node is wide enough for its name (about 7 units per character at 12px).
+        var nodeRadius = Math.Max(22, (3.6 * result.Graph.Nodes.DefaultIfEmpty("").Max(n => n!.Length)) + 6);
         var nodes = result.Graph.Nodes;
         var place = new Dictionary<string, (double X, double Y)>(StringComparer.Ordinal);
         for (var k = 0; k < nodes.Count; k++)
