@@ -1,9 +1,11 @@
+using Partwise.Api.Analysis;
 using Partwise.Api.Baselines;
 using Partwise.Api.Coordinates;
 using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
+using Partwise.Api.Selection;
 using Partwise.Api.Summary;
 
 var builder = WebApplication.CreateBuilder(args);
@@ -28,6 +30,8 @@ app.UsePartwiseOpenApi();
 app.MapHealth();
 app.MapCoordinates();
 app.MapSummary();
+app.MapSelection();
+app.MapAnalysis();
 app.MapBaselines();
 app.MapScreenings();
 app.MapFlags();

@@ -74,6 +74,10 @@ public class OpenApiTests(PartwiseFactory factory) : IClassFixture<PartwiseFacto
                 "POST /v1/coordinates/inverse",
                 "POST /v1/distances",
                 "POST /v1/flags/{id}/review",
+                "POST /v1/lra",
+                "POST /v1/ratio-selection",
+                "POST /v1/ratio-sets/evaluate",
+                "POST /v1/ratio-sets/reconstruct",
                 "POST /v1/screenings",
                 "POST /v1/summary",
             ],
@@ -179,11 +183,27 @@ public class OpenApiTests(PartwiseFactory factory) : IClassFixture<PartwiseFacto
                 "/v1/coordinates" => "?transform=alr&denominator=Cl&zeros=multiplicative&detectionLimit.NO3=0.05",
                 "/v1/coordinates/inverse" => "?transform=alr&parts=Ca,Mg,Na,Cl",
                 "/v1/baselines" => "?name=from-csv&zeros=multiplicative&detectionLimit=0.5",
+                "/v1/ratio-sets/evaluate" => "?zeros=multiplicative&detectionLimit=0.05&ratio=Na/Cl&ratio=Ca/HCO3",
+                "/v1/ratio-sets/reconstruct" => "?parts=Ca,Mg,Na,Cl&ratio=Ca/Cl&ratio=Mg/Cl&ratio=Na/Cl",
                 _ => "?zeros=multiplicative&detectionLimit=0.05",
             };
             using (var response = await client.PostCsv(path + query, content["text/csv"]!["example"]!.GetValue<string>()))
             {
                 Assert.True(response.IsSuccessStatusCode, $"{path} (CSV): {(int)response.StatusCode} {await response.Content.ReadAsStringAsync()}");
+            }
+        }
+    }
+
+    [Fact]
+    public async Task ThePictureRoutesDeclareSvgAndNoOtherDoes()
+    {
+        var doc = await Served();
+        foreach (var (path, item) in doc["paths"]!.AsObject())
+        {
+            foreach (var (_, operation) in item!.AsObject())
+            {
+                var svg = operation!["responses"]?["200"]?["content"]?["image/svg+xml"];
+                Assert.True((svg is not null) == (path is "/v1/lra" or "/v1/ratio-selection"), path + (svg is null ? " lacks" : " declares") + " image/svg+xml");
             }
         }
     }

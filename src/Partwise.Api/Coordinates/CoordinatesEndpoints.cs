@@ -60,9 +60,11 @@ public static class CoordinatesEndpoints
                 "Inverts `clr` (C(exp y)), `alr` (C([exp y, 1]) with the 1 at the denominator) and `ilr` (C(exp(V z)), " +
                 "with the same `partition` as the forward transform, or the pivot basis), and closes to `total` " +
                 "(default 1). `rows` hold J coordinates for clr and J − 1 for alr and ilr; `parts` name the output. " +
-                "Pairwise coordinates are refused with 422 `/problems/invalid-option`. Ratio sets are refused with 422 " +
-                "`/problems/singular-ratio-set`: this endpoint inverts only the clr, alr and ilr coordinates, which " +
-                "are always invertible, and makes no check that a ratio set is complete. As text/csv: one row of " +
+                "A `ratios` set of exactly J − 1 pairwise and amalgamation ratios (or pairwise ratios and balances) is solved " +
+                "for the composition as `/v1/ratio-sets/reconstruct` does (Greenacre 2020): a set that is incomplete (pairwise " +
+                "ratios not joining every part), singular or ill-conditioned is 422 `/problems/singular-ratio-set` at " +
+                "`/transform/ratios`, values giving a part ≤ 0 are 422 `/problems/infeasible-ratio-values` at `/rows/i`. " +
+                "Pairwise coordinates are refused with 422 `/problems/invalid-option`. As text/csv: one row of " +
                 "coordinates per sample under any header (optional first column `id`), with `parts` as a comma-separated " +
                 "query parameter. Over the part or row limits is 413 `/problems/too-large`.")
             .AcceptsTable<InverseRequest>(

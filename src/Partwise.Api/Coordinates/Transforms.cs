@@ -1,4 +1,5 @@
 using System.Globalization;
+using Partwise.Api.Selection;
 using Partwise.Api.Shapes;
 using Partwise.Core.Problems;
 using Partwise.Core.Tables;
@@ -57,7 +58,8 @@ public static class Transforms
 
     /// <summary>
     /// The closed composition for each row of coordinates. <c>clr</c>: C(exp(y)); <c>alr</c>: C([exp(y), 1]) with the 1
-    /// at the denominator; <c>ilr</c>: C(exp(V z)) (Egozcue et al. 2003). Pairwise and ratio sets are refused.
+    /// at the denominator; <c>ilr</c>: C(exp(V z)) (Egozcue et al. 2003); <c>ratios</c>: a complete set of J − 1 ratios solved
+    /// for the composition (Greenacre 2020). Pairwise coordinates are refused.
     /// </summary>
     /// <param name="parts">A validated one-row table over the output's part names (see <see cref="PartNames.Require"/>).</param>
     /// <param name="option">The transform the coordinates were made with.</param>
@@ -79,7 +81,8 @@ public static class Transforms
             case "pairwise":
                 throw new CompositionException(ProblemTypes.InvalidOption, "/transform/type", "Pairwise log-ratios are not inverted here: all J(J − 1)/2 of them over-determine a composition. Send clr, alr or ilr coordinates.");
             default:
-                throw new CompositionException(ProblemTypes.SingularRatioSet, "/transform/type", "This endpoint does not invert ratio sets: it inverts clr, alr and ilr coordinates. A ratio set needs a check that it is complete and well conditioned, which this version does not make here.");
+                // The same back-transform as /v1/ratio-sets/reconstruct (Greenacre 2020).
+                return RatioSets.Reconstruct(parts, option!.Ratios, values, parts.PartCount - 1, total, ids, "/transform/ratios");
         }
     }
 

@@ -37,6 +37,7 @@ public static class OpenApiSetup
             options.SchemaFilter<ProblemDetailsSchemaFilter>();
             options.SchemaFilter<ContractSchemaFilter>();
             options.OperationFilter<CsvOperationFilter>();
+            options.OperationFilter<PictureOperationFilter>();
             options.OperationFilter<EndpointTextFilter>();
             options.OperationFilter<Flags.FlagListOperationFilter>();
             OpenApiSchemas.MapShapes(options);
