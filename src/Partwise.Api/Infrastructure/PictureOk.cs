@@ -79,28 +79,5 @@ public static class PictureNegotiation
     /// True when <c>Accept</c> names <c>image/svg+xml</c> with a quality above zero and above that of
     /// <c>application/json</c>. Wildcards (<c>*/*</c>, <c>image/*</c>) never choose SVG, and a tie goes to JSON.
     /// </summary>
-    public static bool PrefersSvg(HttpRequest request)
-    {
-        ArgumentNullException.ThrowIfNull(request);
-        if (!MediaTypeHeaderValue.TryParseList(request.Headers.Accept, out var accepted))
-        {
-            return false;
-        }
-
-        double svg = 0, json = 0;
-        foreach (var media in accepted)
-        {
-            var q = media.Quality ?? 1.0;
-            if (media.MediaType.Equals(SvgMediaType, StringComparison.OrdinalIgnoreCase))
-            {
-                svg = Math.Max(svg, q);
-            }
-            else if (media.MediaType.Equals("application/json", StringComparison.OrdinalIgnoreCase))
-            {
-                json = Math.Max(json, q);
-            }
-        }
-
-        return svg > 0 && svg > json;
-    }
+    public static bool PrefersSvg(HttpRequest request) => Negotiation.Prefers(request, SvgMediaType);
 }

@@ -88,7 +88,13 @@ public static class Negotiation
     /// True when <c>Accept</c> names <c>text/csv</c> with a quality above zero and above that of
     /// <c>application/json</c>. Wildcards never choose CSV, and a tie goes to JSON, the default.
     /// </summary>
-    public static bool PrefersCsv(HttpRequest request)
+    public static bool PrefersCsv(HttpRequest request) => Prefers(request, CsvTable.MediaType);
+
+    /// <summary>
+    /// True when <c>Accept</c> names <paramref name="mediaType"/> with a quality above zero and above that of
+    /// <c>application/json</c>. Wildcards never choose it, and a tie goes to JSON, the default.
+    /// </summary>
+    public static bool Prefers(HttpRequest request, string mediaType)
     {
         ArgumentNullException.ThrowIfNull(request);
         if (!MediaTypeHeaderValue.TryParseList(request.Headers.Accept, out var accepted))
@@ -96,13 +102,13 @@ public static class Negotiation
             return false;
         }
 
-        double csv = 0, json = 0;
+        double wanted = 0, json = 0;
         foreach (var media in accepted)
         {
             var q = media.Quality ?? 1.0;
-            if (media.MediaType.Equals(CsvTable.MediaType, StringComparison.OrdinalIgnoreCase))
+            if (media.MediaType.Equals(mediaType, StringComparison.OrdinalIgnoreCase))
             {
-                csv = Math.Max(csv, q);
+                wanted = Math.Max(wanted, q);
             }
             else if (media.MediaType.Equals("application/json", StringComparison.OrdinalIgnoreCase))
             {
@@ -110,6 +116,6 @@ public static class Negotiation
             }
         }
 
-        return csv > 0 && csv > json;
+        return wanted > 0 && wanted > json;
     }
 }
