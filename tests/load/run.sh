@@ -2,7 +2,7 @@
 # Load figures for the HTTP path, with Debian's wrk, on the loopback interface only:
 #   1. one-sample screening (POST /v1/baselines/{id}/screenings, each sample new, committed to SQLite with
 #      synchronous=FULL before the answer) at 1 connection: latency p50 and p99;
-#   2. GET /healthz at 16 connections: requests per second.
+#   2. the same screening at 16 connections, and GET /healthz at 16 connections: requests per second and their ratio.
 #
 #   tests/load/run.sh            (PARTWISE_LOAD_SECONDS per phase, default 10; PARTWISE_LOAD_PORT, default 5482;
 #                                 PARTWISE_POSTGRES set: the store is PostgreSQL, in a schema of its own dropped at
@@ -66,6 +66,8 @@ PARTWISE_LOAD_PREFIX="warm$$" "$WRK" -t1 -c1 -d2s -s tests/load/screen.lua "$URL
 
 echo "== one-sample screening, 1 connection"
 PARTWISE_LOAD_PREFIX="run$$" "$WRK" -t1 -c1 -d"${DURATION}s" --latency -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" | tee "$WORK/screen.txt"
+echo "== one-sample screening, 16 connections"
+PARTWISE_LOAD_PREFIX="many$$" "$WRK" -t2 -c16 -d"${DURATION}s" --latency -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" | tee "$WORK/screen16.txt"
 echo "== GET /healthz, 16 connections"
 "$WRK" -t2 -c16 -d"${DURATION}s" --latency "$URL/healthz" | tee "$WORK/health.txt"
 
@@ -73,4 +75,6 @@ p50="$(awk '$1 == "50%" {print $2}' "$WORK/screen.txt")"
 p99="$(awk '$1 == "99%" {print $2}' "$WORK/screen.txt")"
 screen_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/screen.txt")"
 health_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/health.txt")"
-echo "== summary ($PROVIDER): screening p50 $p50, p99 $p99 ($screen_rps req/s at 1 connection); /healthz $health_rps req/s at 16 connections"
+screen16_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/screen16.txt")"
+ratio="$(awk -v a="$screen16_rps" -v b="$health_rps" 'BEGIN { printf "%.3f", a / b }')"
+echo "== summary ($PROVIDER): screening p50 $p50, p99 $p99 ($screen_rps req/s at 1 connection); at 16 connections screening $screen16_rps req/s, /healthz $health_rps req/s, ratio $ratio"
