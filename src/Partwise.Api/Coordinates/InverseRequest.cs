@@ -33,13 +33,10 @@ public sealed record InverseRequest : ITableRequest<InverseRequest>
     public static InverseRequest FromCsv(CsvTable csv, IQueryCollection query)
     {
         ArgumentNullException.ThrowIfNull(query);
-        string[]? parts = query.TryGetValue("parts", out var values) && values.Count > 0
-            ? [.. values.SelectMany(v => (v ?? "").Split(',', StringSplitOptions.TrimEntries))]
-            : null;
         return new()
         {
             Csv = csv,
-            Parts = parts,
+            Parts = QueryOptions.List(query, "parts"),
             Transform = TransformOption.FromQuery(query),
             Total = QueryOptions.Number(query, "total", "/total"),
         };

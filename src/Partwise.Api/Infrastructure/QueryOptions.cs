@@ -40,6 +40,18 @@ public static class QueryOptions
             : throw new CompositionException(ProblemTypes.InvalidInput, pointer, $"The query parameter '{name}' is not a finite number (use a dot for decimals: 0.65).");
     }
 
+    /// <summary>
+    /// A list given as comma-separated values, in one parameter or repeated (<c>parts=Ca,Mg&amp;parts=Na</c>); null
+    /// when the parameter is absent.
+    /// </summary>
+    public static string[]? List(IQueryCollection query, string name)
+    {
+        ArgumentNullException.ThrowIfNull(query);
+        return query.TryGetValue(name, out var values) && values.Count > 0
+            ? [.. values.SelectMany(v => (v ?? "").Split(',', StringSplitOptions.TrimEntries))]
+            : null;
+    }
+
     /// <summary>Every parameter named <c>prefix.key</c>, as a map from key to finite number; null when there is none.</summary>
     /// <exception cref="CompositionException">400 when a value is not a finite number.</exception>
     public static Dictionary<string, double>? NumberMap(IQueryCollection query, string prefix, string pointer)

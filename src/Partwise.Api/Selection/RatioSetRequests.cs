@@ -100,13 +100,10 @@ public sealed record RatioReconstructionRequest : ITableRequest<RatioReconstruct
     public static RatioReconstructionRequest FromCsv(CsvTable csv, IQueryCollection query)
     {
         ArgumentNullException.ThrowIfNull(query);
-        string[]? parts = query.TryGetValue("parts", out var values) && values.Count > 0
-            ? [.. values.SelectMany(v => (v ?? "").Split(',', StringSplitOptions.TrimEntries))]
-            : null;
         return new()
         {
             Csv = csv,
-            Parts = parts,
+            Parts = QueryOptions.List(query, "parts"),
             Ratios = RatioOption.FromQuery(query),
             Total = QueryOptions.Number(query, "total", "/total"),
         };
