@@ -15,6 +15,7 @@ public sealed class PartwiseStorage : IAsyncDisposable
     private readonly StoreDatabase database;
     private readonly ChangeWatcher watcher;
     private readonly Lazy<int> schemaVersion;
+    private readonly SqlScreeningStore screenings;
 
     /// <summary>Creates the store for <paramref name="options"/>; <paramref name="clock"/> (default: the system clock) stamps creation, screening, review and retirement times.</summary>
     /// <exception cref="ArgumentException">The options are invalid, or the PostgreSQL connection string is malformed.</exception>
@@ -33,7 +34,8 @@ public sealed class PartwiseStorage : IAsyncDisposable
         watcher = new ChangeWatcher(ct => database.ReadAsync(FlagRows.ReadTokenAsync, ct), options.ChangePollInterval);
         schemaVersion = new Lazy<int>(() => Migrations.For(dialect.MigrationFolder).Count);
         Baselines = new SqlBaselineStore(database);
-        Screenings = new SqlScreeningStore(database, watcher);
+        screenings = new SqlScreeningStore(database, watcher);
+        Screenings = screenings;
         Flags = new SqlFlagStore(database, watcher);
     }
 
@@ -78,9 +80,12 @@ public sealed class PartwiseStorage : IAsyncDisposable
         }
     }
 
-    /// <summary>Stops the change poll and releases pooled connections.</summary>
+    internal (long Commits, long Calls) ScreeningWriterCounts => screenings.WriterCounts;
+
+    /// <summary>Writes the screenings already queued, stops the change poll and releases pooled connections.</summary>
     public async ValueTask DisposeAsync()
     {
+        await screenings.DisposeAsync();
         watcher.Dispose();
         await database.Dialect.DisposeAsync();
     }

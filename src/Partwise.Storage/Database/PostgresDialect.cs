@@ -34,6 +34,10 @@ internal sealed class PostgresDialect : StoreDialect
         _ => false,
     };
 
+    // 40P01 deadlock_detected, 40001 serialization_failure (PostgreSQL manual, appendix A).
+    public override bool IsRetryableTogether(Exception exception) =>
+        exception is PostgresException { SqlState: "40P01" or "40001" };
+
     // SQLSTATE classes (PostgreSQL manual, appendix A): 08 connection exception, 53 insufficient resources (disk full,
     // too many connections), 57P01-57P04 shutdown or database dropped, 58 system (I/O) error, 28 authorisation
     // failure and 3D000 unknown database: the server cannot serve this service now, whatever the request was.

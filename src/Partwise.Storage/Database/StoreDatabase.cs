@@ -65,7 +65,8 @@ internal sealed class StoreDatabase(StoreDialect dialect, TimeProvider clock)
         }
     }
 
-    private bool IsUnavailable(Exception exception, CancellationToken cancellationToken) =>
+    /// <summary>True when <paramref name="exception"/> means the database cannot be reached (and is not the caller's own cancellation).</summary>
+    internal bool IsUnavailable(Exception exception, CancellationToken cancellationToken) =>
         exception is not StorageUnavailableException
         && !(exception is OperationCanceledException && cancellationToken.IsCancellationRequested)
         && (Dialect.IsUnavailable(exception) || exception is TimeoutException);

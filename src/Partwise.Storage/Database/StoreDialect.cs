@@ -21,6 +21,13 @@ internal abstract class StoreDialect : IAsyncDisposable
     /// <summary>True when <paramref name="exception"/> means the database cannot be reached or cannot take the operation now.</summary>
     public abstract bool IsUnavailable(Exception exception);
 
+    /// <summary>
+    /// True when <paramref name="exception"/> aborted a transaction only because of how it met concurrent ones (a
+    /// deadlock broken by the server, a serialization failure): nothing of it was stored, and the same work run again
+    /// on its own can succeed.
+    /// </summary>
+    public virtual bool IsRetryableTogether(Exception exception) => false;
+
     /// <summary>Binds a timestamp (UTC) or null in the provider's column type.</summary>
     public abstract void AddTimestamp(DbCommand command, string name, DateTimeOffset? value);
 

@@ -6,9 +6,26 @@ using Partwise.Storage.Flags;
 namespace Partwise.Storage.Screenings;
 
 /// <summary><see cref="IScreeningStore"/> on either provider.</summary>
-internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher watcher) : IScreeningStore
+internal sealed class SqlScreeningStore : IScreeningStore, IAsyncDisposable
 {
     private const string Columns = "sample_id, fingerprint, result, screened_at, flag_id, observed_at, source";
+
+    private readonly StoreDatabase database;
+    private readonly ChangeWatcher watcher;
+    private readonly ScreeningWriter writer;
+
+    public SqlScreeningStore(StoreDatabase database, ChangeWatcher watcher)
+    {
+        this.database = database;
+        this.watcher = watcher;
+        writer = new ScreeningWriter(database, RecordAsync);
+    }
+
+    /// <summary>The writer's commits and the calls they held.</summary>
+    internal (long Commits, long Calls) WriterCounts => writer.Counts;
+
+    /// <summary>Writes what is queued, then stops taking calls.</summary>
+    public ValueTask DisposeAsync() => writer.DisposeAsync();
 
     public Task<ScreeningBatchResult> RecordAsync(string baselineId, ScreeningEntry entry, CancellationToken cancellationToken) =>
         RecordBatchAsync(baselineId, [entry], cancellationToken);
@@ -27,9 +44,7 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
             Validate(entry);
         }
 
-        var (result, token) = await database.WriteAsync<(ScreeningBatchResult, ChangeToken?)>(
-            (connection, transaction, ct) => RecordAsync(connection, transaction, baselineId, entries, ct),
-            cancellationToken);
+        var (result, token) = await writer.WriteAsync(baselineId, entries, cancellationToken);
         if (token is { } committed)
         {
             watcher.Observe(committed);
