@@ -64,12 +64,23 @@ echo "== $PROVIDER store, baseline $BASELINE, $DURATION s per phase, $(nproc) co
 PARTWISE_LOAD_PREFIX="warm$$" "$WRK" -t1 -c1 -d2s -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" >/dev/null
 "$WRK" -t1 -c4 -d2s "$URL/healthz" >/dev/null
 
+# The service's CPU time (user + system, from /proc/PID/stat) per request of each phase: less sensitive than
+# requests per second to what else the machine is doing, so runs on a busy machine still compare the paths.
+cpu_ticks() { awk '{print $14 + $15}' "/proc/$PID/stat"; }
+requests_of() { awk '/requests in/ {print $1}' "$1"; }
+cpu_us_per_request() { awk -v t="$1" -v n="$2" -v hz="$(getconf CLK_TCK)" 'BEGIN { printf "%.1f", t / hz / n * 1e6 }'; }
+
 echo "== one-sample screening, 1 connection"
 PARTWISE_LOAD_PREFIX="run$$" "$WRK" -t1 -c1 -d"${DURATION}s" --latency -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" | tee "$WORK/screen.txt"
 echo "== one-sample screening, 16 connections"
+t0="$(cpu_ticks)"
 PARTWISE_LOAD_PREFIX="many$$" "$WRK" -t2 -c16 -d"${DURATION}s" --latency -s tests/load/screen.lua "$URL/v1/baselines/$BASELINE/screenings" | tee "$WORK/screen16.txt"
+t1="$(cpu_ticks)"
 echo "== GET /healthz, 16 connections"
 "$WRK" -t2 -c16 -d"${DURATION}s" --latency "$URL/healthz" | tee "$WORK/health.txt"
+t2="$(cpu_ticks)"
+screen_cpu="$(cpu_us_per_request "$((t1 - t0))" "$(requests_of "$WORK/screen16.txt")")"
+health_cpu="$(cpu_us_per_request "$((t2 - t1))" "$(requests_of "$WORK/health.txt")")"
 
 p50="$(awk '$1 == "50%" {print $2}' "$WORK/screen.txt")"
 p99="$(awk '$1 == "99%" {print $2}' "$WORK/screen.txt")"
@@ -78,3 +89,4 @@ health_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/health.txt")"
 screen16_rps="$(awk '/^Requests\/sec/ {print $2}' "$WORK/screen16.txt")"
 ratio="$(awk -v a="$screen16_rps" -v b="$health_rps" 'BEGIN { printf "%.3f", a / b }')"
 echo "== summary ($PROVIDER): screening p50 $p50, p99 $p99 ($screen_rps req/s at 1 connection); at 16 connections screening $screen16_rps req/s, /healthz $health_rps req/s, ratio $ratio"
+echo "== service CPU per request at 16 connections: screening $screen_cpu us, /healthz $health_cpu us"

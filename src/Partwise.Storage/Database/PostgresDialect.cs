@@ -55,6 +55,9 @@ internal sealed class PostgresDialect : StoreDialect
         parameter.DbType = DbType.DateTimeOffset;
     }
 
+    public override void SetTimestamp(DbCommand command, string name, DateTimeOffset? value) =>
+        command.Set(name, value?.ToUniversalTime());
+
     public override DateTimeOffset ReadTimestamp(DbDataReader reader, int ordinal) =>
         reader.GetFieldValue<DateTimeOffset>(ordinal);
 

@@ -90,6 +90,9 @@ internal sealed class SqliteDialect : StoreDialect
     public override void AddTimestamp(DbCommand command, string name, DateTimeOffset? value) =>
         command.Add(name, value?.UtcDateTime.ToString(TimestampFormat, CultureInfo.InvariantCulture));
 
+    public override void SetTimestamp(DbCommand command, string name, DateTimeOffset? value) =>
+        command.Set(name, value?.UtcDateTime.ToString(TimestampFormat, CultureInfo.InvariantCulture));
+
     public override DateTimeOffset ReadTimestamp(DbDataReader reader, int ordinal) =>
         DateTimeOffset.ParseExact(
             reader.GetString(ordinal),

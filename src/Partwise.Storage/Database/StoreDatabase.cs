@@ -71,6 +71,7 @@ internal sealed class StoreDatabase(StoreDialect dialect, TimeProvider clock)
         && !(exception is OperationCanceledException && cancellationToken.IsCancellationRequested)
         && (Dialect.IsUnavailable(exception) || exception is TimeoutException);
 
-    private StorageUnavailableException Unavailable(Exception exception) =>
+    /// <summary>The exception that reports <paramref name="exception"/> as the database being unavailable.</summary>
+    internal StorageUnavailableException Unavailable(Exception exception) =>
         new($"The {Dialect.Name} database is unavailable: {exception.Message}", exception);
 }

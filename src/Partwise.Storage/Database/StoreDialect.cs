@@ -31,6 +31,9 @@ internal abstract class StoreDialect : IAsyncDisposable
     /// <summary>Binds a timestamp (UTC) or null in the provider's column type.</summary>
     public abstract void AddTimestamp(DbCommand command, string name, DateTimeOffset? value);
 
+    /// <summary>Sets the value of a timestamp parameter added by <see cref="AddTimestamp"/> (its provider type stays).</summary>
+    public abstract void SetTimestamp(DbCommand command, string name, DateTimeOffset? value);
+
     /// <summary>Reads a timestamp column written by <see cref="AddTimestamp"/>.</summary>
     public abstract DateTimeOffset ReadTimestamp(DbDataReader reader, int ordinal);
 

@@ -17,9 +17,16 @@ internal static class FlagRows
     /// </summary>
     public static async Task<ChangeToken> BumpAsync(DbConnection connection, DbTransaction transaction, CancellationToken cancellationToken)
     {
-        await using var bump = connection.Command(
-            transaction,
-            "UPDATE store_info SET change_counter = change_counter + 1 WHERE id = 1 RETURNING epoch, change_counter");
+        await using var bump = connection.Command(transaction, BumpSql);
+        return await ReadBumpAsync(bump, cancellationToken);
+    }
+
+    /// <summary>The statement of <see cref="BumpAsync"/>.</summary>
+    public const string BumpSql = "UPDATE store_info SET change_counter = change_counter + 1 WHERE id = 1 RETURNING epoch, change_counter";
+
+    /// <summary>Runs a command of <see cref="BumpSql"/> and returns the new token.</summary>
+    public static async Task<ChangeToken> ReadBumpAsync(DbCommand bump, CancellationToken cancellationToken)
+    {
         await using var reader = await bump.ExecuteReaderAsync(cancellationToken);
         if (!await reader.ReadAsync(cancellationToken))
         {
@@ -36,9 +43,12 @@ internal static class FlagRows
     /// </summary>
     public static async Task LockCounterAsync(DbConnection connection, DbTransaction transaction, StoreDialect dialect, CancellationToken cancellationToken)
     {
-        await using var select = connection.Command(transaction, $"SELECT change_counter FROM store_info WHERE id = 1{dialect.LockRowForUpdate}");
+        await using var select = connection.Command(transaction, LockCounterSql(dialect));
         _ = await select.ExecuteScalarAsync(cancellationToken);
     }
+
+    /// <summary>The statement of <see cref="LockCounterAsync"/>.</summary>
+    public static string LockCounterSql(StoreDialect dialect) => $"SELECT change_counter FROM store_info WHERE id = 1{dialect.LockRowForUpdate}";
 
     /// <summary>The current change token.</summary>
     public static async Task<ChangeToken> ReadTokenAsync(DbConnection connection, CancellationToken cancellationToken)

@@ -1,8 +1,9 @@
 namespace Partwise.Storage.Screenings;
 
 /// <summary>
-/// Screening results, idempotent on (baseline id, sample id). Each call is one transaction that has committed
-/// durably before the returned task completes; a flagged entry's flag is inserted in the same transaction.
+/// Screening results, idempotent on (baseline id, sample id). Each call's writes have committed durably before the
+/// returned task completes, a flagged entry's flag in the same commit. Concurrent calls may share one commit (group
+/// commit), each with the outcome it would have had in a transaction of its own.
 /// </summary>
 public interface IScreeningStore
 {
@@ -12,11 +13,11 @@ public interface IScreeningStore
     Task<ScreeningBatchResult> RecordAsync(string baselineId, ScreeningEntry entry, CancellationToken cancellationToken);
 
     /// <summary>
-    /// Records the entries against the baseline in one transaction. A new (baseline, sample id) is stored, with a
+    /// Records the entries against the baseline, all or nothing. A new (baseline, sample id) is stored, with a
     /// flag (status open) when <see cref="ScreeningEntry.Flag"/> is set; one already stored with the same fingerprint
     /// is a duplicate and returns the stored screening; one stored with another fingerprint is a conflict, and then
-    /// the whole call is rolled back. A sample id repeated within the call is treated as if posted twice. The
-    /// baseline must exist and be active, checked in the same transaction. Entries are written in ordinal order of
+    /// nothing of the call is stored. A sample id repeated within the call is treated as if posted twice. The
+    /// baseline must exist and be active, checked in the transaction that writes the call. Entries are written in ordinal order of
     /// sample id (so concurrent overlapping batches cannot deadlock), hence the flags of one call follow that order;
     /// the outcomes keep the order given.
     /// </summary>

@@ -1,4 +1,3 @@
-using System.Data.Common;
 using System.Threading.Channels;
 using Partwise.Storage.Database;
 using Partwise.Storage.Flags;
@@ -7,8 +6,8 @@ namespace Partwise.Storage.Screenings;
 
 /// <summary>
 /// The one writer of screenings in this process, with group commit. Recording calls queue here; one loop takes every
-/// call waiting at that moment and runs them in one transaction, each inside its own savepoint (a call that ends in a
-/// conflict rolls back to its savepoint and leaves the others alone), then commits once. Every call's task completes
+/// call waiting at that moment and runs them in one transaction (a call of several entries inside its own savepoint,
+/// so that a conflict undoes that call and leaves the others alone), then commits once. Every call's task completes
 /// only after that commit has returned, so what a call reports as stored is durable, as with a transaction of its
 /// own; what changes is that concurrent calls share one commit (one fsync of the SQLite log, one round trip to
 /// PostgreSQL) and never queue for the SQLite write lock. Under no concurrency a group holds one call, so a single
@@ -22,37 +21,28 @@ internal sealed class ScreeningWriter : IAsyncDisposable
     /// <summary>A group stops taking calls once it holds this many entries (a batch of screenings is up to 1,000).</summary>
     internal const int MaxGroupEntries = 4096;
 
-    private const string Savepoint = "screening_call";
-
     private readonly StoreDatabase database;
-    private readonly RecordWork record;
     private readonly Channel<Call> queue = Channel.CreateUnbounded<Call>(new UnboundedChannelOptions { SingleReader = true });
     private readonly Task loop;
-
-    /// <summary>Records one call's entries inside a transaction; <c>Commit</c> false means roll this call back.</summary>
-    internal delegate Task<((ScreeningBatchResult Result, ChangeToken? Token) Outcome, bool Commit)> RecordWork(
-        DbConnection connection,
-        DbTransaction transaction,
-        string baselineId,
-        IReadOnlyList<ScreeningEntry> entries,
-        CancellationToken cancellationToken);
-
-    public ScreeningWriter(StoreDatabase database, RecordWork record)
-    {
-        this.database = database;
-        this.record = record;
-        loop = Task.Run(RunAsync);
-    }
-
-    /// <summary>The number of commits so far, and of calls they held (for tests and benchmarks of the grouping).</summary>
-    internal (long Commits, long Calls) Counts => (Interlocked.Read(ref commits), Interlocked.Read(ref calls));
-
     private long commits;
     private long calls;
 
+    // The writer's own connection and its statements, kept across groups; dropped after a failure and opened again
+    // for the next group, so the writer recovers once the database does.
+    private ScreeningStatements? statements;
+
+    public ScreeningWriter(StoreDatabase database)
+    {
+        this.database = database;
+        loop = Task.Run(RunAsync);
+    }
+
+    /// <summary>The number of commits so far, and of calls they held (for tests of the grouping).</summary>
+    internal (long Commits, long Calls) Counts => (Interlocked.Read(ref commits), Interlocked.Read(ref calls));
+
     /// <summary>
-    /// Queues the call and completes once it has been committed (or rolled back, for a conflict). A call whose token
-    /// is cancelled before its group starts is dropped unstored; once its group has started it is carried through,
+    /// Queues the call and completes once it has been committed (or undone, for a conflict). A call whose token is
+    /// cancelled before its group starts is dropped unstored; once its group has started it is carried through,
     /// because a commit already under way cannot be unmade for one caller.
     /// </summary>
     /// <exception cref="StorageUnavailableException">The database cannot be reached, or the store is closing; nothing was stored.</exception>
@@ -71,11 +61,12 @@ internal sealed class ScreeningWriter : IAsyncDisposable
         return call.Done.Task;
     }
 
-    /// <summary>Stops taking calls and waits until every queued call has been written.</summary>
+    /// <summary>Stops taking calls, waits until every queued call has been written, and closes the connection.</summary>
     public async ValueTask DisposeAsync()
     {
         queue.Writer.TryComplete();
         await loop.ConfigureAwait(false);
+        await DropConnectionAsync().ConfigureAwait(false);
     }
 
     private async Task RunAsync()
@@ -107,96 +98,118 @@ internal sealed class ScreeningWriter : IAsyncDisposable
 
     private async Task WriteGroupAsync(List<Call> group)
     {
+        Outcome[] outcomes;
         try
         {
-            var outcomes = await WriteTogetherAsync(group).ConfigureAwait(false);
-            Interlocked.Increment(ref commits);
-            Interlocked.Add(ref calls, group.Count);
-            for (var i = 0; i < group.Count; i++)
-            {
-                outcomes[i].Complete(group[i]);
-            }
+            outcomes = await WriteTogetherAsync(group).ConfigureAwait(false);
         }
-        catch (Exception ex) when (group.Count > 1 && database.Dialect.IsRetryableTogether(ex))
+        catch (Exception ex) when (ex is StorageUnavailableException || database.IsUnavailable(ex, CancellationToken.None))
         {
-            // Two replicas' groups locked the same screening keys in opposite orders (PostgreSQL broke the cycle by
-            // aborting this one): nothing of it was stored, so each call is written again in a transaction of its own,
-            // whose keys are taken in the one order every single call uses.
+            await DropConnectionAsync().ConfigureAwait(false);
+            var unavailable = ex as StorageUnavailableException ?? database.Unavailable(ex);
             foreach (var call in group)
             {
-                await WriteAloneAsync(call).ConfigureAwait(false);
+                call.Done.TrySetException(unavailable);
             }
+
+            return;
+        }
+        catch (Exception ex) when (group.Count > 1)
+        {
+            // Nothing of the group was stored. Either two replicas' groups locked the same screening keys in opposite
+            // orders (PostgreSQL broke the cycle by aborting this one), or one call failed in a way no check foresaw:
+            // each call is written again in a transaction of its own, so a failure stays with the call that caused it.
+            _ = ex;
+            await DropConnectionAsync().ConfigureAwait(false);
+            foreach (var call in group)
+            {
+                await WriteGroupAsync([call]).ConfigureAwait(false);
+            }
+
+            return;
         }
         catch (Exception ex)
         {
-            foreach (var call in group)
-            {
-                call.Done.TrySetException(ex);
-            }
+            await DropConnectionAsync().ConfigureAwait(false);
+            group[0].Done.TrySetException(ex);
+            return;
+        }
+
+        Interlocked.Increment(ref commits);
+        Interlocked.Add(ref calls, group.Count);
+        for (var i = 0; i < group.Count; i++)
+        {
+            group[i].Done.TrySetResult((outcomes[i].Result, outcomes[i].Token));
         }
     }
 
-    private async Task WriteAloneAsync(Call call)
+    /// <summary>
+    /// One transaction for the group: first the baselines' status (share-locked on PostgreSQL), then the change
+    /// counter's lock when any call may raise a flag, then each call's screening keys: the lock order every writer
+    /// keeps (see <see cref="FlagRows.LockCounterAsync"/>), here for the whole group since its locks last until the
+    /// one commit.
+    /// </summary>
+    private async Task<Outcome[]> WriteTogetherAsync(List<Call> group)
     {
-        try
+        var ct = CancellationToken.None;
+        var open = statements ??= new ScreeningStatements(await database.Dialect.OpenAsync(ct).ConfigureAwait(false), database.Dialect);
+        await using var transaction = await open.Connection.BeginTransactionAsync(ct).ConfigureAwait(false);
+        open.Enlist(transaction);
+
+        var baselines = new Dictionary<string, ScreeningBatchStatus>(StringComparer.Ordinal);
+        foreach (var call in group)
         {
-            var outcome = await database.WriteAsync(
-                (connection, transaction, ct) => record(connection, transaction, call.BaselineId, call.Entries, ct),
-                CancellationToken.None).ConfigureAwait(false);
-            Interlocked.Increment(ref commits);
-            Interlocked.Increment(ref calls);
-            call.Done.TrySetResult(outcome);
+            if (!baselines.ContainsKey(call.BaselineId))
+            {
+                baselines[call.BaselineId] = await open.BaselineStatusAsync(call.BaselineId, ct).ConfigureAwait(false);
+            }
         }
-        catch (Exception ex)
+
+        if (group.Exists(c => baselines[c.BaselineId] == ScreeningBatchStatus.Committed && c.Entries.Any(e => e.Flag is not null)))
         {
-            call.Done.TrySetException(ex);
+            await open.LockCounterAsync(ct).ConfigureAwait(false);
         }
+
+        var outcomes = new Outcome[group.Count];
+        for (var i = 0; i < group.Count; i++)
+        {
+            var call = group[i];
+            var status = baselines[call.BaselineId];
+            if (status != ScreeningBatchStatus.Committed)
+            {
+                outcomes[i] = new Outcome(new ScreeningBatchResult(status, []), null);
+                continue;
+            }
+
+            // A call of one entry writes nothing when it conflicts; a call of several needs its own savepoint so
+            // that a conflict undoes its earlier entries and nothing of the calls around it.
+            var (result, token, _) = await ScreeningRecorder.RecordAsync(
+                open, database.Now(), call.BaselineId, call.Entries, ownSavepoint: call.Entries.Count > 1, ct).ConfigureAwait(false);
+            outcomes[i] = new Outcome(result, token);
+        }
+
+        // Once the work is done the commit is not cancelled: a cancelled commit would leave callers unsure whether
+        // their data were stored.
+        await transaction.CommitAsync(ct).ConfigureAwait(false);
+        return outcomes;
     }
 
-    private Task<CallOutcome[]> WriteTogetherAsync(List<Call> group) =>
-        database.WriteAsync<CallOutcome[]>(async (connection, transaction, ct) =>
+    private async Task DropConnectionAsync()
+    {
+        if (statements is { } dropped)
         {
-            if (group.Count == 1)
+            statements = null;
+            try
             {
-                var (outcome, commit) = await record(connection, transaction, group[0].BaselineId, group[0].Entries, ct).ConfigureAwait(false);
-                return ([CallOutcome.Of(outcome)], commit);
+                await dropped.DisposeAsync().ConfigureAwait(false);
+                await dropped.Connection.DisposeAsync().ConfigureAwait(false);
             }
-
-            // The change counter first when any call may raise a flag: the lock order every writer of flags keeps
-            // (FlagRows.LockCounterAsync), here for the whole group since its locks are held until the one commit.
-            if (group.Exists(c => c.Entries.Any(e => e.Flag is not null)))
+            catch (Exception ex) when (database.IsUnavailable(ex, CancellationToken.None) || ex is InvalidOperationException)
             {
-                await FlagRows.LockCounterAsync(connection, transaction, database.Dialect, ct).ConfigureAwait(false);
+                // A broken connection may refuse to close cleanly; it is gone either way.
             }
-
-            var outcomes = new CallOutcome[group.Count];
-            for (var i = 0; i < group.Count; i++)
-            {
-                await transaction.SaveAsync(Savepoint, ct).ConfigureAwait(false);
-                try
-                {
-                    var (outcome, commit) = await record(connection, transaction, group[i].BaselineId, group[i].Entries, ct).ConfigureAwait(false);
-                    if (commit)
-                    {
-                        await transaction.ReleaseAsync(Savepoint, ct).ConfigureAwait(false);
-                    }
-                    else
-                    {
-                        await transaction.RollbackAsync(Savepoint, ct).ConfigureAwait(false);
-                    }
-
-                    outcomes[i] = CallOutcome.Of(outcome);
-                }
-                catch (Exception ex) when (!database.IsUnavailable(ex, ct) && !database.Dialect.IsRetryableTogether(ex))
-                {
-                    // This call alone failed (a bug or a constraint no check foresaw): undo its part, keep the rest.
-                    await transaction.RollbackAsync(Savepoint, ct).ConfigureAwait(false);
-                    outcomes[i] = CallOutcome.Failed(ex);
-                }
-            }
-
-            return (outcomes, true);
-        }, CancellationToken.None);
+        }
+    }
 
     private sealed class Call(string baselineId, IReadOnlyList<ScreeningEntry> entries, CancellationToken cancellationToken)
     {
@@ -211,22 +224,5 @@ internal sealed class ScreeningWriter : IAsyncDisposable
             new(TaskCreationOptions.RunContinuationsAsynchronously);
     }
 
-    private readonly record struct CallOutcome((ScreeningBatchResult, ChangeToken?) Outcome, Exception? Error)
-    {
-        public static CallOutcome Of((ScreeningBatchResult, ChangeToken?) outcome) => new(outcome, null);
-
-        public static CallOutcome Failed(Exception error) => new(default, error);
-
-        public void Complete(Call call)
-        {
-            if (Error is { } error)
-            {
-                call.Done.TrySetException(error);
-            }
-            else
-            {
-                call.Done.TrySetResult(Outcome);
-            }
-        }
-    }
+    private readonly record struct Outcome(ScreeningBatchResult Result, ChangeToken? Token);
 }
