@@ -167,7 +167,10 @@ public static class ScreeningEndpoints
         {
             var outcome = batch.Outcomes[i];
             var stored = outcome.Stored ?? throw new InvalidOperationException("A committed screening has no stored record.");
-            items[i] = BaselineJson.Read<ScreeningResultItem>(stored.ResultJson) with
+            // A sample recorded now answers with the result just computed (what was stored is its JSON, which reads
+            // back the same: doubles are written round-trip); a duplicate answers with what was stored first.
+            var result = outcome.Kind == ScreeningOutcomeKind.Recorded ? results[i] : BaselineJson.Read<ScreeningResultItem>(stored.ResultJson);
+            items[i] = result with
             {
                 FlagId = stored.FlagId,
                 Duplicate = outcome.Kind == ScreeningOutcomeKind.Duplicate,
