@@ -29,7 +29,7 @@ public sealed class PartwiseStorage : IAsyncDisposable
 
         StoreDialect dialect = options.UsesPostgres
             ? new PostgresDialect(options.PostgresConnectionString!)
-            : new SqliteDialect(options.DataDirectory);
+            : new SqliteDialect(options.DataDirectory, options.SqliteSynchronous);
         database = new StoreDatabase(dialect, clock ?? TimeProvider.System);
         watcher = new ChangeWatcher(ct => database.ReadAsync(FlagRows.ReadTokenAsync, ct), options.ChangePollInterval);
         schemaVersion = new Lazy<int>(() => Migrations.For(dialect.MigrationFolder).Count);

@@ -23,6 +23,16 @@ public sealed class StorageOptions
     public string? PostgresConnectionString { get; set; }
 
     /// <summary>
+    /// How SQLite makes a commit durable (its <c>synchronous</c> setting, https://sqlite.org/pragma.html#pragma_synchronous).
+    /// <see cref="SqliteSynchronous.Full"/> (the default) fsyncs the write-ahead log at every commit: an acknowledged
+    /// screening survives a killed process, an OS crash and a power cut. <see cref="SqliteSynchronous.Normal"/> leaves
+    /// the log to the OS between checkpoints: an acknowledged screening survives a killed process (the crash test
+    /// checks this) but the last commits can be lost to an OS crash or power cut; each commit then costs no fsync.
+    /// Ignored with PostgreSQL, whose durability is the server's.
+    /// </summary>
+    public SqliteSynchronous SqliteSynchronous { get; set; } = SqliteSynchronous.Full;
+
+    /// <summary>
     /// How often a waiter on <c>IFlagStore.WaitForChangeAsync</c> looks for changes committed by other connections
     /// (other replicas); changes made through the same store instance wake waiters at once. Default 200 ms; valid
     /// range 10 ms to 10 s.
@@ -41,6 +51,11 @@ public sealed class StorageOptions
             problems.Add($"{SectionName}:{nameof(DataDirectory)} must name a directory when no PostgreSQL connection string is set.");
         }
 
+        if (!Enum.IsDefined(SqliteSynchronous))
+        {
+            problems.Add($"{SectionName}:{nameof(SqliteSynchronous)} must be Full or Normal.");
+        }
+
         if (ChangePollInterval < TimeSpan.FromMilliseconds(10) || ChangePollInterval > TimeSpan.FromSeconds(10))
         {
             problems.Add($"{SectionName}:{nameof(ChangePollInterval)} must lie between 10 ms and 10 s.");
@@ -48,4 +63,14 @@ public sealed class StorageOptions
 
         return problems;
     }
+}
+
+/// <summary>SQLite's <c>synchronous</c> setting for the store's connections (write-ahead log mode).</summary>
+public enum SqliteSynchronous
+{
+    /// <summary>fsync of the log at every commit: durable against power loss.</summary>
+    Full,
+
+    /// <summary>No fsync at commit: durable against a killed process, not against an OS crash or power loss.</summary>
+    Normal,
 }

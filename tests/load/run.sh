@@ -6,7 +6,8 @@
 #
 #   tests/load/run.sh            (PARTWISE_LOAD_SECONDS per phase, default 10; PARTWISE_LOAD_PORT, default 5482;
 #                                 PARTWISE_POSTGRES set: the store is PostgreSQL, in a schema of its own dropped at
-#                                 the end, instead of a temporary SQLite file)
+#                                 the end, instead of a temporary SQLite file; PARTWISE_LOAD_SQLITE_SYNCHRONOUS=Normal
+#                                 measures SQLite without an fsync per commit, default Full)
 #
 # Builds the service in Release (PARTWISE_LOAD_NO_BUILD=1 to reuse a build), starts it, creates the demo well-11
 # baseline (8 parts, robust scatter), runs both phases in the same run and stops the service. Figures depend on the
@@ -42,7 +43,8 @@ if [[ -n "${PARTWISE_POSTGRES:-}" ]]; then
     CONNECTION="$(pg_schema_create "$PG_SCHEMA")"
     STORE=("Partwise__Storage__PostgresConnectionString=$CONNECTION"); PROVIDER=postgresql
 else
-    STORE=("Partwise__Storage__DataDirectory=$WORK/data"); PROVIDER=sqlite
+    STORE=("Partwise__Storage__DataDirectory=$WORK/data" "Partwise__Storage__SqliteSynchronous=${PARTWISE_LOAD_SQLITE_SYNCHRONOUS:-Full}")
+    PROVIDER="sqlite, synchronous=${PARTWISE_LOAD_SQLITE_SYNCHRONOUS:-Full}"
 fi
 
 # Warning-level logs only: one console line per request would measure the console.

@@ -5,7 +5,8 @@ using Microsoft.Data.Sqlite;
 namespace Partwise.Storage.Database;
 
 /// <summary>
-/// SQLite in one file, for a single process. Durability: write-ahead log (journal_mode=WAL) with synchronous=FULL.
+/// SQLite in one file, for a single process. Durability: write-ahead log (journal_mode=WAL) with synchronous=FULL
+/// (the default; <see cref="StorageOptions.SqliteSynchronous"/> can choose NORMAL).
 /// In WAL mode a commit has appended its frames to the -wal file with write() before it returns, so even
 /// synchronous=NORMAL survives a killed process (the OS still holds the data); FULL also fsyncs the log at every
 /// commit, so an acknowledged screening also survives an OS crash or power loss (given a disk that honours fsync).
@@ -33,8 +34,13 @@ internal sealed class SqliteDialect : StoreDialect
     private readonly string directory;
     private readonly string connectionString;
 
-    public SqliteDialect(string dataDirectory)
+    private readonly string pragmas;
+
+    public SqliteDialect(string dataDirectory, SqliteSynchronous synchronous = SqliteSynchronous.Full)
     {
+        // journal_mode is stored in the file (the first connection switches it); synchronous and foreign_keys
+        // belong to the connection, so every open sets them again (no I/O).
+        pragmas = $"PRAGMA journal_mode=WAL; PRAGMA synchronous={(synchronous == SqliteSynchronous.Normal ? "NORMAL" : "FULL")}; PRAGMA foreign_keys=ON;";
         directory = Path.GetFullPath(dataDirectory);
         FilePath = Path.Combine(directory, StorageOptions.SqliteFileName);
         connectionString = new SqliteConnectionStringBuilder
@@ -70,11 +76,9 @@ internal sealed class SqliteDialect : StoreDialect
         try
         {
             await connection.OpenAsync(cancellationToken);
-            await using var pragmas = connection.CreateCommand();
-            // journal_mode is stored in the file (the first connection switches it); synchronous and foreign_keys
-            // belong to the connection, so every open sets them again (no I/O).
-            pragmas.CommandText = "PRAGMA journal_mode=WAL; PRAGMA synchronous=FULL; PRAGMA foreign_keys=ON;";
-            await pragmas.ExecuteNonQueryAsync(cancellationToken);
+            await using var setup = connection.CreateCommand();
+            setup.CommandText = pragmas;
+            await setup.ExecuteNonQueryAsync(cancellationToken);
             return connection;
         }
         catch

@@ -47,6 +47,17 @@ public sealed class SqliteStoreBehaviour : StoreBehaviour
         Assert.Equal(1L, await ScalarAsync(connection, "PRAGMA foreign_keys"));
     }
 
+    [Fact]
+    public async Task NormalSynchronousIsUsedWhenTheOptionsAskForIt()
+    {
+        var store = Open(new StorageOptions { DataDirectory = Options.DataDirectory, SqliteSynchronous = SqliteSynchronous.Normal });
+        await using var connection = (SqliteConnection)await store.Database.Dialect.OpenAsync(CancellationToken.None);
+
+        // 1 = NORMAL (https://sqlite.org/pragma.html#pragma_synchronous)
+        Assert.Equal(1L, await ScalarAsync(connection, "PRAGMA synchronous"));
+        Assert.Equal("wal", await ScalarAsync(connection, "PRAGMA journal_mode"));
+    }
+
     private static async Task<object?> ScalarAsync(SqliteConnection connection, string sql)
     {
         await using var command = connection.CreateCommand();

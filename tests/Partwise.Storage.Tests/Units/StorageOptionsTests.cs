@@ -12,6 +12,7 @@ public sealed class StorageOptionsTests
         Assert.Equal("./data", options.DataDirectory);
         Assert.False(options.UsesPostgres);
         Assert.Equal(TimeSpan.FromMilliseconds(200), options.ChangePollInterval);
+        Assert.Equal(SqliteSynchronous.Full, options.SqliteSynchronous);
         Assert.Empty(options.Validate());
         Assert.False(new StorageOptions { PostgresConnectionString = "  " }.UsesPostgres);
     }
@@ -21,6 +22,7 @@ public sealed class StorageOptionsTests
     {
         Assert.Contains(new StorageOptions { DataDirectory = "" }.Validate(), p => p.Contains("DataDirectory", StringComparison.Ordinal));
         Assert.Contains(new StorageOptions { ChangePollInterval = TimeSpan.Zero }.Validate(), p => p.Contains("ChangePollInterval", StringComparison.Ordinal));
+        Assert.Contains(new StorageOptions { SqliteSynchronous = (SqliteSynchronous)7 }.Validate(), p => p.Contains("SqliteSynchronous", StringComparison.Ordinal));
         Assert.Throws<ArgumentException>(() => new PartwiseStorage(new StorageOptions { DataDirectory = " " }));
     }
 
