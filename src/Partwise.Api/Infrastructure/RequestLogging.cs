@@ -1,4 +1,3 @@
-using Microsoft.AspNetCore.Diagnostics;
 using Serilog;
 using Serilog.Events;
 using Serilog.Formatting.Compact;
@@ -43,9 +42,13 @@ public static class RequestLogging
             options.EnrichDiagnosticContext = static (diagnostics, context) =>
             {
                 diagnostics.Set("RequestId", context.TraceIdentifier);
-                // After an exception the handler has cleared the endpoint; its feature still knows the route.
-                var endpoint = context.GetEndpoint() ?? context.Features.Get<IExceptionHandlerFeature>()?.Endpoint;
-                diagnostics.Set("Route", (endpoint as RouteEndpoint)?.RoutePattern.RawText);
+                diagnostics.Set("Route", RouteTemplate.Of(context));
+                if (context.User.Identity?.Name is { } key)
+                {
+                    // The caller's key name as the credentials' handler set it; never the Authorization header.
+                    diagnostics.Set("key", key);
+                }
+
                 diagnostics.Set("RequestContentType", context.Request.ContentType);
                 diagnostics.Set("ResponseContentType", context.Response.ContentType);
             };
