@@ -4,6 +4,7 @@ using Partwise.Api.Coordinates;
 using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
@@ -23,11 +24,13 @@ var app = builder.Build();
 
 app.UseRequestId();
 app.UsePartwiseRequestLogging();
+app.UsePartwiseMetrics();
 app.UseExceptionHandler();
 app.UseStatusCodeProblems();
 app.UsePartwiseOpenApi();
 
 app.MapHealth();
+app.MapPartwiseMetrics();
 app.MapCoordinates();
 app.MapSummary();
 app.MapSelection();

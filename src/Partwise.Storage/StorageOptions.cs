@@ -1,3 +1,5 @@
+using Npgsql;
+
 namespace Partwise.Storage;
 
 /// <summary>
@@ -56,12 +58,31 @@ public sealed class StorageOptions
             problems.Add($"{SectionName}:{nameof(SqliteSynchronous)} must be Full or Normal.");
         }
 
+        if (UsesPostgres && !IsConnectionString(PostgresConnectionString!))
+        {
+            // The problem names the setting, never its text: a connection string may hold a password.
+            problems.Add($"{SectionName}:{nameof(PostgresConnectionString)} is not a PostgreSQL connection string: Keyword=value pairs separated by ';' with known keywords, such as Host=db;Port=5432;Database=partwise;Username=partwise.");
+        }
+
         if (ChangePollInterval < TimeSpan.FromMilliseconds(10) || ChangePollInterval > TimeSpan.FromSeconds(10))
         {
             problems.Add($"{SectionName}:{nameof(ChangePollInterval)} must lie between 10 ms and 10 s.");
         }
 
         return problems;
+    }
+
+    private static bool IsConnectionString(string text)
+    {
+        try
+        {
+            _ = new NpgsqlConnectionStringBuilder(text);
+            return true;
+        }
+        catch (Exception e) when (e is ArgumentException or FormatException or InvalidCastException or OverflowException)
+        {
+            return false;
+        }
     }
 }
 

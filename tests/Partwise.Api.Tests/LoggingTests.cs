@@ -1,3 +1,9 @@
+using System.Net.Http.Headers;
+using System.Security.Claims;
+using Microsoft.AspNetCore.Builder;
+using Microsoft.AspNetCore.Hosting;
+using Microsoft.AspNetCore.TestHost;
+using Microsoft.Extensions.DependencyInjection;
 using Partwise.Api.Tests.Support;
 using Serilog.Events;
 
@@ -55,8 +61,66 @@ public class LoggingTests
         Assert.Equal(LogEventLevel.Information, completion.Level);
     }
 
+    [Fact]
+    public async Task TheCompletionEventNamesTheCallersKeyButNeverTheCredentialsOrTheValues()
+    {
+        await using var factory = new PartwiseFactory();
+        // What the credentials' handler leaves on the request: an identity named after the caller's key.
+        using var keyed = factory.WithWebHostBuilder(b => b.ConfigureTestServices(s => s.AddSingleton<IStartupFilter, KeyNameFilter>()));
+        using var client = keyed.CreateClient();
+        using var request = new HttpRequestMessage(HttpMethod.Post, new Uri("/v1/coordinates", UriKind.Relative))
+        {
+            Content = new StringContent(
+                "{\"parts\": [\"Ca\", \"Mg\", \"Na\"], \"rows\": [[41.203, 9.817, 22.649]], \"transform\": {\"type\": \"clr\"}}",
+                System.Text.Encoding.UTF8,
+                "application/json"),
+        };
+        request.Headers.Authorization = new AuthenticationHeaderValue("Bearer", "pw-secret-0c9e4f71d2");
+        request.Headers.Add("X-Request-Id", "log-key-1");
+        using var response = await client.SendAsync(request);
+        await response.OkJson();
+
+        var completion = Assert.Single(factory.Logs.Events, IsCompletion);
+        Assert.Equal("\"log-key-1\"", completion.Properties["RequestId"].ToString());
+        Assert.Equal("\"lab-ingest\"", completion.Properties["key"].ToString());
+        foreach (var e in factory.Logs.Events)
+        {
+            var text = e.RenderMessage() + string.Join(" ", e.Properties.Select(p => p.Key + "=" + p.Value));
+            Assert.DoesNotContain("pw-secret-0c9e4f71d2", text, StringComparison.Ordinal);
+            Assert.DoesNotContain("Bearer", text, StringComparison.OrdinalIgnoreCase);
+            Assert.DoesNotContain("Authorization", text, StringComparison.OrdinalIgnoreCase);
+            Assert.DoesNotContain("41.203", text, StringComparison.Ordinal);
+            Assert.DoesNotContain("22.649", text, StringComparison.Ordinal);
+        }
+    }
+
+    [Fact]
+    public async Task AnAnonymousRequestLogsNoKey()
+    {
+        await using var factory = new PartwiseFactory();
+        using var client = factory.CreateClient();
+        using var response = await client.GetAsync(new Uri("/healthz", UriKind.Relative));
+        await response.OkJson();
+        var completion = Assert.Single(factory.Logs.Events, IsCompletion);
+        Assert.False(completion.Properties.ContainsKey("key"));
+        Assert.True(completion.Properties.ContainsKey("RequestId"));
+    }
+
     private static bool IsCompletion(LogEvent e) => Source(e) == "Serilog.AspNetCore.RequestLoggingMiddleware";
 
     private static string Source(LogEvent e) =>
         e.Properties.TryGetValue("SourceContext", out var value) ? value.ToString().Trim('"') : "";
+
+    private sealed class KeyNameFilter : IStartupFilter
+    {
+        public Action<IApplicationBuilder> Configure(Action<IApplicationBuilder> next) => app =>
+        {
+            app.Use((context, following) =>
+            {
+                context.User = new ClaimsPrincipal(new ClaimsIdentity([new Claim(ClaimTypes.Name, "lab-ingest")], "test-key"));
+                return following(context);
+            });
+            next(app);
+        };
+    }
 }

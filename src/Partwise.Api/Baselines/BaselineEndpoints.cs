@@ -1,5 +1,6 @@
 using Microsoft.AspNetCore.Http.HttpResults;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Core.Problems;
 using Partwise.Storage.Baselines;
@@ -96,7 +97,7 @@ public static class BaselineEndpoints
         PendingBaseline pending;
         try
         {
-            pending = BaselineFitting.Fit(request);
+            pending = PartwiseMetrics.TimeBaselineFit(() => BaselineFitting.Fit(request));
         }
         catch (CompositionException e)
         {

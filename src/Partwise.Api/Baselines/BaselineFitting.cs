@@ -1,5 +1,6 @@
 using System.Globalization;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Shapes;
 using Partwise.Core.Problems;
 using Partwise.Core.Ratios;
@@ -193,7 +194,7 @@ public static class BaselineFitting
         try
         {
             var weights = PartWeights.Resolve(PartWeightSpec.Equal, reference);
-            result = RatioSelection.Run(reference, weights, new RatioSelectionOptions { MaxRatios = option.MaxRatios, Explained = option.Explained });
+            result = PartwiseMetrics.TimeSelection("baseline", () => RatioSelection.Run(reference, weights, new RatioSelectionOptions { MaxRatios = option.MaxRatios, Explained = option.Explained }));
         }
         catch (CompositionException e)
         {

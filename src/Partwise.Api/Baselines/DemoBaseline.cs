@@ -82,7 +82,7 @@ public static class BaselineSetup
     /// <summary>The cache of rebuilt baselines and, except while the OpenAPI document is generated, the demo loader.</summary>
     public static IServiceCollection AddPartwiseBaselines(this IServiceCollection services, IConfiguration configuration)
     {
-        services.AddOptions<DemoOptions>().Bind(configuration.GetSection(DemoOptions.Section));
+        services.AddOptions<DemoOptions>().Bind(configuration.GetSection(DemoOptions.Section)).ValidateOnStart();
         services.AddSingleton<BaselineCache>();
         if (!StorageSetup.IsDocumentGeneration)
         {

@@ -2,6 +2,7 @@ using System.Globalization;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Core.Problems;
 using Partwise.Storage;
@@ -179,7 +180,7 @@ public static class ScreeningEndpoints
         }
 
         log.Set("FlaggedCount", flagged);
-        return TypedResults.Ok(new ScreeningResponse(items));
+        return TypedResults.Ok(new ScreeningResponse(PartwiseMetrics.Screened(id, items)));
     }
 
     /// <summary>Screens the samples against the baseline document in the request; nothing is stored.</summary>
@@ -197,7 +198,7 @@ public static class ScreeningEndpoints
             var samples = SampleScreening.Place(request.Sample, request.Samples, limits.Value.MaxScreeningSamples);
             log.Set("PartCount", baseline.Baseline.PartCount);
             log.Set("SampleCount", samples.Length);
-            return TypedResults.Ok(new ScreeningResponse(SampleScreening.Screen(baseline, samples)));
+            return TypedResults.Ok(new ScreeningResponse(PartwiseMetrics.ScreenedInline(SampleScreening.Screen(baseline, samples))));
         }
         catch (CompositionException e)
         {

@@ -5,6 +5,7 @@ using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Net.Http.Headers;
 using Partwise.Api.Baselines;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Core.Problems;
 using Partwise.Storage.Flags;
@@ -145,7 +146,7 @@ public static class FlagEndpoints
         var flag = await storage.Flags.ReviewAsync(id, status, request.Note, request.Reviewer, cancellationToken).ConfigureAwait(false);
         return flag is null
             ? ProblemCatalog.ToResult(new CompositionException(ProblemTypes.NotFound, "", $"There is no flag with id '{id}'."))
-            : TypedResults.Ok(FlagItem.From(flag));
+            : TypedResults.Ok(PartwiseMetrics.Reviewed(FlagItem.From(flag)));
     }
 
     /// <summary>Reads and checks the query; problems point at <c>/{parameter}</c>.</summary>

@@ -1,5 +1,6 @@
 using Microsoft.AspNetCore.Http.HttpResults;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Storage;
 
 namespace Partwise.Api.Health;
@@ -7,6 +8,9 @@ namespace Partwise.Api.Health;
 /// <summary>Liveness for orchestrators and load balancers.</summary>
 public static class HealthEndpoints
 {
+    /// <summary>The readiness route's name, its operation in the OpenAPI document and in the storage error metric.</summary>
+    public const string ReadinessName = "GetReadiness";
+
     /// <summary>Maps <c>GET /healthz</c>.</summary>
     public static RouteGroupBuilder MapHealth(this IEndpointRouteBuilder app)
     {
@@ -16,7 +20,7 @@ public static class HealthEndpoints
             .WithSummary("Is the process alive?")
             .WithDescription("Answers 200 `{\"status\": \"ok\"}` while the process serves requests. It checks nothing else and needs no credentials.");
         group.MapGet("/readyz", Ready)
-            .WithName("GetReadiness")
+            .WithName(ReadinessName)
             .WithSummary("Can the service reach its storage?")
             .WithDescription("Answers 200 `{\"status\": \"ready\"}` when the database answers and its schema is migrated (a migration that failed at start is tried again here), else 503 `/problems/storage-unavailable`. Needs no credentials.")
             .ProducesProblem(StatusCodes.Status503ServiceUnavailable);
@@ -40,6 +44,7 @@ public static class HealthEndpoints
         }
         catch (StorageUnavailableException)
         {
+            PartwiseMetrics.StorageUnavailable(ReadinessName);
             return TypedResults.Problem(StorageProblem.Details());
         }
     }

@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Diagnostics;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Core.Problems;
 using Partwise.Storage;
 
@@ -39,6 +40,7 @@ public sealed partial class ProblemExceptionHandler(ILogger<ProblemExceptionHand
         if (exception is StorageUnavailableException storage)
         {
             LogStorageUnavailable(logger, storage.Message, httpContext.TraceIdentifier);
+            PartwiseMetrics.StorageUnavailable(RouteTemplate.EndpointOf(httpContext)?.Metadata.GetMetadata<IEndpointNameMetadata>()?.EndpointName);
             httpContext.Response.Headers.RetryAfter = StorageProblem.RetryAfterSeconds;
         }
 

@@ -1,4 +1,3 @@
-using Microsoft.AspNetCore.Diagnostics;
 using Serilog;
 using Serilog.Events;
 using Serilog.Formatting.Compact;
@@ -17,9 +16,15 @@ public static class RequestLogging
     /// registered as services are added too. The static <c>Log.Logger</c> is left alone: each host (several run in
     /// one test process) logs through its own logger.
     /// </summary>
+    /// <exception cref="InvalidOperationException">A level under <c>Serilog:MinimumLevel</c> is not a Serilog level.</exception>
     public static WebApplicationBuilder AddPartwiseLogging(this WebApplicationBuilder builder)
     {
         ArgumentNullException.ThrowIfNull(builder);
+        if (LevelProblems(builder.Configuration) is { Count: > 0 } problems)
+        {
+            throw new InvalidOperationException(string.Join(" ", problems));
+        }
+
         builder.Services.AddSerilog((services, configuration) => configuration
             .MinimumLevel.Information()
             .MinimumLevel.Override("Microsoft.AspNetCore", LogEventLevel.Warning)
@@ -30,6 +35,23 @@ public static class RequestLogging
             .WriteTo.Console(new RenderedCompactJsonFormatter()),
             preserveStaticLogger: true);
         return builder;
+    }
+
+    /// <summary>
+    /// The levels under <c>Serilog:MinimumLevel</c> (one level, or <c>Default</c> and <c>Override:{source}</c>) that
+    /// are not Serilog levels, each named with its setting; Serilog's own error would not say which setting it read.
+    /// </summary>
+    public static IReadOnlyList<string> LevelProblems(IConfiguration configuration)
+    {
+        ArgumentNullException.ThrowIfNull(configuration);
+        var section = configuration.GetSection("Serilog:MinimumLevel");
+        IEnumerable<IConfigurationSection> levels = section.Value is not null
+            ? [section]
+            : [section.GetSection("Default"), .. section.GetSection("Override").GetChildren()];
+        return [.. levels
+            // A value starting with '$' names a level switch of Serilog's own settings.
+            .Where(s => s.Value is { Length: > 0 } value && value[0] != '$' && !(Enum.TryParse<LogEventLevel>(value, ignoreCase: true, out var level) && Enum.IsDefined(level)))
+            .Select(s => $"{s.Path} is '{s.Value}', not a log level: Verbose, Debug, Information, Warning, Error or Fatal.")];
     }
 
     /// <summary>Adds the completion event; put it after <see cref="RequestId.UseRequestId"/> and before the exception handler.</summary>
@@ -43,9 +65,13 @@ public static class RequestLogging
             options.EnrichDiagnosticContext = static (diagnostics, context) =>
             {
                 diagnostics.Set("RequestId", context.TraceIdentifier);
-                // After an exception the handler has cleared the endpoint; its feature still knows the route.
-                var endpoint = context.GetEndpoint() ?? context.Features.Get<IExceptionHandlerFeature>()?.Endpoint;
-                diagnostics.Set("Route", (endpoint as RouteEndpoint)?.RoutePattern.RawText);
+                diagnostics.Set("Route", RouteTemplate.Of(context));
+                if (context.User.Identity?.Name is { } key)
+                {
+                    // The caller's key name as the credentials' handler set it; never the Authorization header.
+                    diagnostics.Set("key", key);
+                }
+
                 diagnostics.Set("RequestContentType", context.Request.ContentType);
                 diagnostics.Set("ResponseContentType", context.Response.ContentType);
             };

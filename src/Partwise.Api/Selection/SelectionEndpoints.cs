@@ -3,6 +3,7 @@ using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
 using Partwise.Api.Coordinates;
 using Partwise.Api.Infrastructure;
+using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Shapes;
 using Partwise.Core.Problems;
@@ -176,7 +177,7 @@ public static class SelectionEndpoints
                 log.Set("PartCount", names.Count - amalgamations.Length);
                 log.Set("RowCount", count);
                 var weights = MomentWeights(spec, names, amalgamations.Length);
-                result = RatioSelection.Run(new SelectionMoments(names, covariance, count), weights, options);
+                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(new SelectionMoments(names, covariance, count), weights, options));
                 imputed = [];
             }
             else
@@ -185,7 +186,7 @@ public static class SelectionEndpoints
                 log.DescribeTable(table);
                 var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
                 var weights = PartWeights.Resolve(spec, zeros.Table);
-                result = RatioSelection.Run(zeros.Table, weights, options);
+                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(zeros.Table, weights, options));
                 imputed = ImputedCellItem.From(zeros.Imputed);
             }
 

@@ -53,6 +53,11 @@ public class StorageOutageTests
                 await down.Problem(503, "/problems/storage-unavailable");
             }
 
+            using (var notReady = await client.GetAsync(new Uri("/readyz", UriKind.Relative)))
+            {
+                await notReady.Problem(503, "/problems/storage-unavailable");
+            }
+
             File.Delete(blocker);
             // While storage is down the service tries again at most once a second; within a few seconds it is back.
             var status = HttpStatusCode.ServiceUnavailable;

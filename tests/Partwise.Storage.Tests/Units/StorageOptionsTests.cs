@@ -23,6 +23,9 @@ public sealed class StorageOptionsTests
         Assert.Contains(new StorageOptions { DataDirectory = "" }.Validate(), p => p.Contains("DataDirectory", StringComparison.Ordinal));
         Assert.Contains(new StorageOptions { ChangePollInterval = TimeSpan.Zero }.Validate(), p => p.Contains("ChangePollInterval", StringComparison.Ordinal));
         Assert.Contains(new StorageOptions { SqliteSynchronous = (SqliteSynchronous)7 }.Validate(), p => p.Contains("SqliteSynchronous", StringComparison.Ordinal));
+        Assert.Contains(new StorageOptions { PostgresConnectionString = "Host=db;Colour=blue" }.Validate(), p => p.Contains("PostgresConnectionString", StringComparison.Ordinal));
+        Assert.Contains(new StorageOptions { PostgresConnectionString = "Host=db;Port=fifty" }.Validate(), p => p.Contains("PostgresConnectionString", StringComparison.Ordinal));
+        Assert.Empty(new StorageOptions { PostgresConnectionString = "Host=db;Port=5432;Database=partwise;Username=partwise;Timeout=3" }.Validate());
         Assert.Throws<ArgumentException>(() => new PartwiseStorage(new StorageOptions { DataDirectory = " " }));
     }
 
