@@ -1,40 +1,16 @@
 """Retries and credentials against a scripted local HTTP server (127.0.0.1, PARTWISE_FAKE_PORT or 5368)."""
-import http.server
 import json
 import os
 import socket
-import threading
 import unittest
 
 import requests
 
 from partwise_client import Client, PartwiseError, RetryPolicy
 from partwise_client.retry import parse_retry_after
+from scripted_server import serve
 
 PORT = int(os.environ.get("PARTWISE_FAKE_PORT", "5368"))
-
-
-class Scripted(http.server.BaseHTTPRequestHandler):
-    """Answers each request with the next (status, headers, body) of the server's script and records it."""
-
-    def _answer(self):
-        length = int(self.headers.get("Content-Length") or 0)
-        body = self.rfile.read(length) if length else b""
-        server = self.server
-        server.seen.append({"method": self.command, "path": self.path, "headers": dict(self.headers), "body": body})
-        status, headers, payload = server.script.pop(0) if server.script else (500, {}, b"script exhausted")
-        self.send_response(status)
-        for k, v in headers.items():
-            self.send_header(k, v)
-        data = payload if isinstance(payload, bytes) else json.dumps(payload).encode()
-        self.send_header("Content-Length", str(len(data)))
-        self.end_headers()
-        self.wfile.write(data)
-
-    do_GET = do_POST = do_DELETE = _answer
-
-    def log_message(self, *args):  # quiet
-        pass
 
 
 PROBLEM = {"Content-Type": "application/problem+json"}
@@ -49,10 +25,7 @@ def problem(status, type_="/problems/storage-unavailable"):
 class RetryTest(unittest.TestCase):
     @classmethod
     def setUpClass(cls):
-        cls.server = http.server.ThreadingHTTPServer(("127.0.0.1", PORT), Scripted)
-        cls.server.script, cls.server.seen = [], []
-        cls.thread = threading.Thread(target=cls.server.serve_forever, daemon=True)
-        cls.thread.start()
+        cls.server = serve(PORT)
 
     @classmethod
     def tearDownClass(cls):
