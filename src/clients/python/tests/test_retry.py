@@ -1,5 +1,4 @@
 """Retries and credentials against a scripted local HTTP server (127.0.0.1, PARTWISE_FAKE_PORT or 5368)."""
-import json
 import os
 import socket
 import unittest
