@@ -122,6 +122,14 @@ class ComputeTest(unittest.TestCase):
         self.assertEqual(caught.exception.status // 100, 4)
         self.assertIn("/rows/1/0", caught.exception.pointers)
 
+    def test_without_frames_tables_come_back_as_dicts(self):
+        plain = client(frames=False)
+        answer = plain.coordinates(self.x[:2].tolist(), "clr", parts=PARTS, ids=self.ids[:2])
+        self.assertLessEqual({"columns", "ids", "rows", "imputed"}, set(answer))
+        self.assertEqual(answer["ids"], self.ids[:2])
+        assert_close(clr(self.x[:2]), answer["rows"], "clr as lists")
+        self.assertIsInstance(plain.summary(self.x.tolist(), parts=PARTS)["center"], dict)
+
     def test_health_and_readiness(self):
         self.assertIn("status", self.pw.health())
         self.assertIn("status", self.pw.ready())
