@@ -15,6 +15,9 @@ public static class DemoFiles
     /// <summary>The sample source named in screening bodies.</summary>
     public const string Source = "demo-lab";
 
+    /// <summary>The invented instrument named in the instrument export.</summary>
+    public const string Instrument = "demo-ic-01";
+
     /// <summary>
     /// Writes every demo file of the scenario with seed <see cref="GroundwaterScenario.DemoSeed"/> into
     /// <paramref name="directory"/> (created if missing), UTF-8 without a byte-order mark; returns the paths written.
@@ -107,6 +110,11 @@ public static class DemoFiles
                 $"The 2026 samples of {GroundwaterScenario.DriftingWell} as a screening body; the later ones should stand out.",
                 $"{JsonPost}well-11-screenings.json -H \"Authorization: Bearer $PARTWISE_KEY\" \"$PARTWISE_URL/v1/baselines/$BASELINE_ID/screenings\"",
                 ScreeningsJson(drift)),
+            new(
+                "well-11-instrument.csv",
+                $"The 2026 samples of {GroundwaterScenario.DriftingWell} as an instrument exports them, in time order: sample id, time taken (UTC), instrument, then mg/L, `<limit` below detection. The feed example posts them one by one as they arrive.",
+                $"/usr/bin/python3 src/clients/python/examples/instrument_feed.py demo/well-11-instrument.csv --url \"$PARTWISE_URL\"",
+                InstrumentCsv(drift)),
         };
         files.Add(new DemoFile("README.md", "What these files are and how to regenerate them.", null, Readme(scenario, files)));
         return files;
@@ -131,6 +139,30 @@ public static class DemoFiles
         foreach (var s in samples)
         {
             sb.Append(s.Id).Append(',').AppendJoin(',', s.Values.Select(DemoJson.FormatNumber)).Append('\n');
+        }
+
+        return sb.ToString();
+    }
+
+    /// <summary>
+    /// The samples as an instrument's export: a header <c>sample,taken_at,instrument,Ca,...,NO3</c>, then one line per
+    /// sample in time order, the time in ISO 8601 UTC, and a value below its part's detection limit written as
+    /// <c>&lt;limit</c> (for example <c>&lt;0.05</c>), as laboratory instruments report it; LF line endings.
+    /// </summary>
+    public static string InstrumentCsv(IReadOnlyList<WaterSample> samples)
+    {
+        ArgumentNullException.ThrowIfNull(samples);
+        var sb = new StringBuilder();
+        sb.Append("sample,taken_at,instrument,").AppendJoin(',', GroundwaterScenario.Parts).Append('\n');
+        foreach (var s in samples.OrderBy(s => s.ObservedAt))
+        {
+            sb.Append(s.Id).Append(',')
+                .Append(s.ObservedAt.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture)).Append(',')
+                .Append(Instrument).Append(',')
+                .AppendJoin(',', GroundwaterScenario.Parts.Select((p, j) => s.Values[j] == 0
+                    ? "<" + DemoJson.FormatNumber(GroundwaterScenario.DetectionLimits[p])
+                    : DemoJson.FormatNumber(s.Values[j])))
+                .Append('\n');
         }
 
         return sb.ToString();
