@@ -1,12 +1,18 @@
 using Partwise.Api.Analysis;
 using Partwise.Api.Baselines;
 using Partwise.Api.Coordinates;
+using Partwise.Api.Credentials;
 using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
+
+if (HashKeyCommand.TryRun(args))
+{
+    return;
+}
 
 var builder = WebApplication.CreateBuilder(args);
 
@@ -16,6 +22,7 @@ builder.Services.AddPartwiseLimits(builder.Configuration);
 builder.Services.AddPartwiseProblems();
 builder.Services.AddPartwiseJson();
 builder.Services.AddPartwiseOpenApi();
+builder.Services.AddPartwiseCredentials(builder.Configuration);
 builder.Services.AddPartwiseStorage(builder.Configuration);
 builder.Services.AddPartwiseBaselines(builder.Configuration);
 
@@ -26,6 +33,7 @@ app.UsePartwiseRequestLogging();
 app.UseExceptionHandler();
 app.UseStatusCodeProblems();
 app.UsePartwiseOpenApi();
+app.UsePartwiseCredentials();
 
 app.MapHealth();
 app.MapCoordinates();

@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Http.HttpResults;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Core.Problems;
@@ -23,6 +24,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status503ServiceUnavailable);
 
         group.MapPost("", Create)
+            .RequireRole(Roles.Admin)
             .WithName("CreateBaseline")
             .WithSummary("Fit and store a screening baseline")
             .WithDescription(
@@ -56,6 +58,7 @@ public static class BaselineEndpoints
                     ]));
 
         group.MapGet("", List)
+            .RequireRole(Roles.Reader)
             .WithName("ListBaselines")
             .WithSummary("List the stored baselines")
             .WithDescription(
@@ -64,6 +67,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status400BadRequest);
 
         group.MapGet("/{id}", Get)
+            .RequireRole(Roles.Reader)
             .WithName("GetBaseline")
             .WithSummary("One baseline document")
             .WithDescription(
@@ -73,6 +77,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status404NotFound);
 
         group.MapDelete("/{id}", Retire)
+            .RequireRole(Roles.Admin)
             .WithName("RetireBaseline")
             .WithSummary("Retire a baseline")
             .WithDescription(

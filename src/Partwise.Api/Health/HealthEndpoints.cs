@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Http.HttpResults;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Storage;
 
@@ -10,7 +11,7 @@ public static class HealthEndpoints
     /// <summary>Maps <c>GET /healthz</c>.</summary>
     public static RouteGroupBuilder MapHealth(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("").WithTags("Operations");
+        var group = app.MapGroup("").WithTags("Operations").AllowAnonymous();
         group.MapGet("/healthz", Alive)
             .WithName("GetHealth")
             .WithSummary("Is the process alive?")
