@@ -27,6 +27,6 @@ public sealed partial class CredentialsStartupLog(KeyRing keys, ILogger<Credenti
     [LoggerMessage(Level = LogLevel.Warning, Message = "No credentials configured (Partwise:Credentials:Keys): serving loopback callers only, each as holding every role; any other caller gets 401. Run `hash-key` to make a key")]
     private static partial void LogLoopbackOnly(ILogger logger);
 
-    [LoggerMessage(Level = LogLevel.Information, Message = "Credentials: {KeyCount} keys configured ({KeyNames}); every route but /healthz, /readyz, /metrics and the API document needs one")]
+    [LoggerMessage(Level = LogLevel.Information, Message = "Credentials: keys configured: {KeyCount} ({KeyNames}); every route but /healthz, /readyz, /metrics and the API document needs one")]
     private static partial void LogKeys(ILogger logger, int keyCount, string keyNames);
 }

@@ -42,7 +42,8 @@ public static class HashKeyCommand
         ArgumentNullException.ThrowIfNull(input);
         ArgumentNullException.ThrowIfNull(output);
         ArgumentNullException.ThrowIfNull(error);
-        if (args.Count > 1 || args is [{ Length: > 1 } a] && a.StartsWith('-'))
+        // "--" starts an option, of which there are none; a key that begins so (base64url allows it) comes through "-".
+        if (args.Count > 1 || args is [{ } a] && a.StartsWith("--", StringComparison.Ordinal))
         {
             error.WriteLine($"usage: {Name} [KEY | -]   (no KEY: make a new random key; -: read the key from standard input)");
             return 2;

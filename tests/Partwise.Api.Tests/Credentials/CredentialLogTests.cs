@@ -17,7 +17,7 @@ public class CredentialLogTests
 
         var start = Assert.Single(factory.Logs.Events, e => e.MessageTemplate.Text.StartsWith("Credentials:", StringComparison.Ordinal));
         var rendered = start.RenderMessage();
-        Assert.Contains("5 keys configured", rendered, StringComparison.Ordinal);
+        Assert.Contains("keys configured: 5", rendered, StringComparison.Ordinal);
         foreach (var name in CredentialHosts.Keys.Keys)
         {
             Assert.Contains(name, rendered, StringComparison.Ordinal);
