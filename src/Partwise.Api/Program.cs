@@ -1,6 +1,7 @@
 using Partwise.Api.Analysis;
 using Partwise.Api.Baselines;
 using Partwise.Api.Coordinates;
+using Partwise.Api.Credentials;
 using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
@@ -8,6 +9,11 @@ using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
+
+if (HashKeyCommand.TryRun(args))
+{
+    return;
+}
 
 var builder = WebApplication.CreateBuilder(args);
 
@@ -17,6 +23,7 @@ builder.Services.AddPartwiseLimits(builder.Configuration);
 builder.Services.AddPartwiseProblems();
 builder.Services.AddPartwiseJson();
 builder.Services.AddPartwiseOpenApi();
+builder.Services.AddPartwiseCredentials(builder.Configuration);
 builder.Services.AddPartwiseStorage(builder.Configuration);
 builder.Services.AddPartwiseBaselines(builder.Configuration);
 
@@ -28,9 +35,10 @@ app.UsePartwiseMetrics();
 app.UseExceptionHandler();
 app.UseStatusCodeProblems();
 app.UsePartwiseOpenApi();
+app.UsePartwiseCredentials();
 
 app.MapHealth();
-app.MapPartwiseMetrics();
+app.MapPartwiseMetrics().AllowAnonymous();
 app.MapCoordinates();
 app.MapSummary();
 app.MapSelection();

@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Http.HttpResults;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Shapes;
@@ -15,7 +16,7 @@ public static class AnalysisEndpoints
     /// <summary>Maps <c>/v1/lra</c>.</summary>
     public static RouteGroupBuilder MapAnalysis(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems();
+        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems().RequireAnyKey();
 
         group.MapPost("/lra", Analyse)
             .WithName("AnalyseLogRatios")

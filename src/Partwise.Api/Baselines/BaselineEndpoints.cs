@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Http.HttpResults;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
@@ -24,6 +25,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status503ServiceUnavailable);
 
         group.MapPost("", Create)
+            .RequireRole(Roles.Admin)
             .WithName("CreateBaseline")
             .WithSummary("Fit and store a screening baseline")
             .WithDescription(
@@ -57,6 +59,7 @@ public static class BaselineEndpoints
                     ]));
 
         group.MapGet("", List)
+            .RequireRole(Roles.Reader)
             .WithName("ListBaselines")
             .WithSummary("List the stored baselines")
             .WithDescription(
@@ -65,6 +68,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status400BadRequest);
 
         group.MapGet("/{id}", Get)
+            .RequireRole(Roles.Reader)
             .WithName("GetBaseline")
             .WithSummary("One baseline document")
             .WithDescription(
@@ -74,6 +78,7 @@ public static class BaselineEndpoints
             .ProducesProblem(StatusCodes.Status404NotFound);
 
         group.MapDelete("/{id}", Retire)
+            .RequireRole(Roles.Admin)
             .WithName("RetireBaseline")
             .WithSummary("Retire a baseline")
             .WithDescription(

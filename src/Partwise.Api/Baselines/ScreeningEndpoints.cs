@@ -1,6 +1,7 @@
 using System.Globalization;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
@@ -32,6 +33,7 @@ public static class ScreeningEndpoints
         ArgumentNullException.ThrowIfNull(app);
         app.MapGroup("/v1/baselines").WithTags("Screening")
             .MapPost("/{id}/screenings", ScreenStored)
+            .RequireRole(Roles.Submitter)
             .WithName("ScreenSamples")
             .WithSummary("Screen samples against a stored baseline")
             .WithDescription(
@@ -54,6 +56,7 @@ public static class ScreeningEndpoints
 
         app.MapGroup("/v1").WithTags("Screening")
             .MapPost("/screenings", ScreenInline)
+            .RequireAnyKey()
             .WithName("ScreenSamplesInline")
             .WithSummary("Screen samples against a baseline document sent with them")
             .WithDescription(

@@ -1,6 +1,7 @@
 using System.Globalization;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Shapes;
@@ -26,7 +27,7 @@ public static class CoordinatesEndpoints
     /// <summary>Maps <c>/v1/compositions/prepare</c>, <c>/v1/coordinates</c> and <c>/v1/coordinates/inverse</c>.</summary>
     public static RouteGroupBuilder MapCoordinates(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Coordinates").ProducesTableProblems();
+        var group = app.MapGroup("/v1").WithTags("Coordinates").ProducesTableProblems().RequireAnyKey();
 
         group.MapPost("/compositions/prepare", Prepare)
             .WithName("PrepareCompositions")

@@ -4,6 +4,7 @@ using System.Text;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Net.Http.Headers;
 using Partwise.Api.Baselines;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
@@ -25,6 +26,7 @@ public static class FlagEndpoints
         var group = app.MapGroup("/v1/flags").WithTags("Flags").ProducesProblem(StatusCodes.Status503ServiceUnavailable);
 
         group.MapGet("", List)
+            .RequireRole(Roles.Reader)
             .WithName("ListFlags")
             .WithSummary("List flags, or wait for new ones")
             .WithDescription(
@@ -43,6 +45,7 @@ public static class FlagEndpoints
             .ProducesProblem(StatusCodes.Status400BadRequest);
 
         group.MapPost("/{id}/review", Review)
+            .RequireRole(Roles.Reviewer)
             .WithName("ReviewFlag")
             .WithSummary("Record an analyst's review of a flag")
             .WithDescription(

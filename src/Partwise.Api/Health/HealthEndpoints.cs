@@ -1,4 +1,5 @@
 using Microsoft.AspNetCore.Http.HttpResults;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Storage;
@@ -14,7 +15,7 @@ public static class HealthEndpoints
     /// <summary>Maps <c>GET /healthz</c>.</summary>
     public static RouteGroupBuilder MapHealth(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("").WithTags("Operations");
+        var group = app.MapGroup("").WithTags("Operations").AllowAnonymous();
         group.MapGet("/healthz", Alive)
             .WithName("GetHealth")
             .WithSummary("Is the process alive?")

@@ -17,6 +17,8 @@ public static class ProblemCatalog
         [ProblemTypes.UnsupportedMediaType] = (StatusCodes.Status415UnsupportedMediaType, "The request body has an unsupported media type"),
         [ProblemTypes.NotFound] = (StatusCodes.Status404NotFound, "Nothing is at this path"),
         [ProblemTypes.MethodNotAllowed] = (StatusCodes.Status405MethodNotAllowed, "This path does not take this method"),
+        [ProblemTypes.Unauthorized] = (StatusCodes.Status401Unauthorized, "The request needs a valid key"),
+        [ProblemTypes.Forbidden] = (StatusCodes.Status403Forbidden, "The key does not hold the role this route needs"),
         [ProblemTypes.InternalError] = (StatusCodes.Status500InternalServerError, "The service failed"),
         [ProblemTypes.NonFiniteValue] = (StatusCodes.Status422UnprocessableEntity, "A value is not a finite number"),
         [ProblemTypes.NegativeValue] = (StatusCodes.Status422UnprocessableEntity, "A value is negative"),

@@ -2,6 +2,7 @@ using System.Globalization;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
 using Partwise.Api.Coordinates;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
@@ -35,7 +36,7 @@ public static class SelectionEndpoints
     /// <summary>Maps <c>/v1/ratio-selection</c>, <c>/v1/ratio-sets/evaluate</c> and <c>/v1/ratio-sets/reconstruct</c>.</summary>
     public static RouteGroupBuilder MapSelection(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Ratio selection").ProducesTableProblems();
+        var group = app.MapGroup("/v1").WithTags("Ratio selection").ProducesTableProblems().RequireAnyKey();
 
         group.MapPost("/ratio-selection", Select)
             .WithName("SelectRatios")

@@ -1,6 +1,7 @@
 using System.Globalization;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.Extensions.Options;
+using Partwise.Api.Credentials;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Shapes;
@@ -23,7 +24,7 @@ public static class SummaryEndpoints
     /// <summary>Maps <c>/v1/summary</c> and <c>/v1/distances</c>.</summary>
     public static RouteGroupBuilder MapSummary(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Summary").ProducesTableProblems();
+        var group = app.MapGroup("/v1").WithTags("Summary").ProducesTableProblems().RequireAnyKey();
 
         group.MapPost("/summary", Summarise)
             .WithName("SummariseTable")

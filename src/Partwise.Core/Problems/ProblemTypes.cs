@@ -63,6 +63,12 @@ public static class ProblemTypes
     /// <summary>The resource exists but not with the requested HTTP method (HTTP 405).</summary>
     public const string MethodNotAllowed = "/problems/method-not-allowed";
 
+    /// <summary>No key, a key the service does not know, or (with no key configured) a caller not on loopback (HTTP 401).</summary>
+    public const string Unauthorized = "/problems/unauthorized";
+
+    /// <summary>A known key without the role the route needs (HTTP 403).</summary>
+    public const string Forbidden = "/problems/forbidden";
+
     /// <summary>A failure inside the service, not caused by the request (HTTP 500).</summary>
     public const string InternalError = "/problems/internal-error";
 

@@ -1,4 +1,5 @@
 using System.Collections.Concurrent;
+using System.Net;
 using Microsoft.AspNetCore.Hosting;
 using Microsoft.AspNetCore.Mvc.Testing;
 using Microsoft.AspNetCore.TestHost;
@@ -13,7 +14,9 @@ namespace Partwise.Api.Tests.Support;
 /// The one host for HTTP tests: the real Program with optional configuration overrides (for small limits), a
 /// fresh SQLite data directory of its own (deleted with the host) so that no test sees another's data, the demo
 /// baseline off unless a test turns it on, and a sink that keeps every log event, so tests can read the
-/// completion events.
+/// completion events. The in-process server has no socket, so requests would have no remote address; the host
+/// gives them <see cref="RemoteAddress"/>, loopback unless a test says otherwise, so that without configured keys
+/// the tests are the caller on the same machine that the service serves (see Credentials/).
 /// </summary>
 public class PartwiseFactory : WebApplicationFactory<Program>
 {
@@ -46,6 +49,13 @@ public class PartwiseFactory : WebApplicationFactory<Program>
     public static PartwiseFactory WithSettings(params (string Key, string? Value)[] settings) =>
         new(settings.ToDictionary(s => s.Key, s => s.Value));
 
+    /// <summary>
+    /// The remote address every request arrives from (default loopback; null: none, as the bare test server gives);
+    /// set it before the first client is made, for example to a documentation address (RFC 5737) for a caller from
+    /// the network.
+    /// </summary>
+    public IPAddress? RemoteAddress { get; set; } = IPAddress.Loopback;
+
     /// <summary>Every log event the host wrote.</summary>
     public CollectingSink Logs { get; } = new();
 
@@ -58,7 +68,11 @@ public class PartwiseFactory : WebApplicationFactory<Program>
     {
         ArgumentNullException.ThrowIfNull(builder);
         builder.ConfigureAppConfiguration(c => c.AddInMemoryCollection(_settings));
-        builder.ConfigureTestServices(services => services.AddSingleton<ILogEventSink>(Logs));
+        builder.ConfigureTestServices(services =>
+        {
+            services.AddSingleton<ILogEventSink>(Logs);
+            services.AddSingleton<IStartupFilter>(new RemoteAddressStartupFilter(() => RemoteAddress));
+        });
     }
 
     /// <inheritdoc />

@@ -5,6 +5,7 @@ using Microsoft.AspNetCore.Hosting;
 using Microsoft.AspNetCore.Mvc.Testing;
 using Microsoft.AspNetCore.TestHost;
 using Microsoft.Extensions.Configuration;
+using Partwise.Api.Credentials;
 
 namespace Partwise.Benchmarks.Http;
 
@@ -26,7 +27,7 @@ public class CoordinatesEndpointBenchmarks : IDisposable
     {
         _body = CoordinatesBodies.Create(100_000, 20);
         _factory = LargeBodyHost.Create(_body.Length);
-        _client = _factory.CreateClient();
+        _client = LargeBodyHost.CreateClient(_factory);
     }
 
     [Benchmark(Baseline = true)]
@@ -52,11 +53,28 @@ public class CoordinatesEndpointBenchmarks : IDisposable
     }
 }
 
-/// <summary>The real host with the body limit raised to fit the benchmark's body.</summary>
+/// <summary>The real host with the body limit raised to fit the benchmark's body, and one key its clients send.</summary>
 public static class LargeBodyHost
 {
-    /// <summary>A factory whose body limit is four times <paramref name="bodyBytes"/>.</summary>
+    /// <summary>The benchmark's key (no secret: it exists only in this in-process host).</summary>
+    public const string Key = "benchmark-key-0123456789abcdefghijklmnopq";
+
+    /// <summary>A factory whose body limit is four times <paramref name="bodyBytes"/>, accepting <see cref="Key"/>.</summary>
     public static WebApplicationFactory<Program> Create(long bodyBytes) =>
         new WebApplicationFactory<Program>().WithWebHostBuilder(b => b.UseSolutionRelativeContentRoot("src/Partwise.Api").ConfigureAppConfiguration(c => c.AddInMemoryCollection(
-            new Dictionary<string, string?> { ["Partwise:Limits:MaxBodyBytes"] = (4 * bodyBytes).ToString(System.Globalization.CultureInfo.InvariantCulture) })));
+            new Dictionary<string, string?>
+            {
+                ["Partwise:Limits:MaxBodyBytes"] = (4 * bodyBytes).ToString(System.Globalization.CultureInfo.InvariantCulture),
+                ["Partwise:Credentials:Keys:0:Name"] = "benchmark",
+                ["Partwise:Credentials:Keys:0:Sha256"] = KeyHash.Hex(Key),
+            })));
+
+    /// <summary>A client of <paramref name="factory"/> that sends <see cref="Key"/>.</summary>
+    public static HttpClient CreateClient(WebApplicationFactory<Program> factory)
+    {
+        ArgumentNullException.ThrowIfNull(factory);
+        var client = factory.CreateClient();
+        client.DefaultRequestHeaders.Authorization = new AuthenticationHeaderValue("Bearer", Key);
+        return client;
+    }
 }

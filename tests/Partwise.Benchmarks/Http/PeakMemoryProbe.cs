@@ -18,7 +18,7 @@ public static class PeakMemoryProbe
         var body = CoordinatesBodies.Create(100_000, 20);
         var small = CoordinatesBodies.Create(100, 20);
         using var factory = LargeBodyHost.Create(body.Length);
-        using var client = factory.CreateClient();
+        using var client = LargeBodyHost.CreateClient(factory);
         await PostAsync(client, small).ConfigureAwait(false);
         GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
         GC.WaitForPendingFinalizers();

@@ -39,6 +39,8 @@ public static class OpenApiSetup
             options.OperationFilter<CsvOperationFilter>();
             options.OperationFilter<PictureOperationFilter>();
             options.OperationFilter<EndpointTextFilter>();
+            options.OperationFilter<Credentials.CredentialsOperationFilter>();
+            options.AddSecurityDefinition(Credentials.CredentialsOperationFilter.SchemeId, Credentials.CredentialsOperationFilter.Scheme());
             options.OperationFilter<Flags.FlagListOperationFilter>();
             OpenApiSchemas.MapShapes(options);
         });
