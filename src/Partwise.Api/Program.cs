@@ -8,6 +8,8 @@ using Partwise.Api.Infrastructure.OpenApi;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
 
+if (HealthProbe.IsRequested(args)) { return await HealthProbe.RunAsync(args, Console.Error); }
+
 var builder = WebApplication.CreateBuilder(args);
 
 builder.UseDefaultListenAddress();
@@ -37,3 +39,4 @@ app.MapScreenings();
 app.MapFlags();
 
 app.Run();
+return 0;
