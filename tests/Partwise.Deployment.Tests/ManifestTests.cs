@@ -191,6 +191,17 @@ public class ManifestTests
     }
 
     [Fact]
+    public void TheExampleConnectionStringParsesAndAllReplicasPoolsFitPostgresDefaultConnectionLimit()
+    {
+        var value = Keys(Manifests.Single("Secret"))["Partwise__Storage__PostgresConnectionString"];
+        var connection = new Npgsql.NpgsqlConnectionStringBuilder(value);
+        Assert.Equal(5432, connection.Port);
+        var maxReplicas = Manifests.Single("HorizontalPodAutoscaler").Root.Map("spec").Integer("maxReplicas");
+        // max_connections defaults to 100 (PostgreSQL documentation, "Connections and Authentication").
+        Assert.True(maxReplicas * connection.MaxPoolSize <= 100, $"{maxReplicas} replicas x pool {connection.MaxPoolSize} exceed 100 connections");
+    }
+
+    [Fact]
     public void TheConfigMapAndTheSecretNameRealSettingsOfTheAppWithValuesItAccepts()
     {
         foreach (var kind in new[] { "ConfigMap", "Secret" })
