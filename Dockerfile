@@ -3,7 +3,8 @@
 #   docker run --rm -p 8080:8080 -v partwise-data:/data partwise
 # One container with SQLite in /data is one instance; several replicas need PostgreSQL
 # (Partwise__Storage__PostgresConnectionString), see k8s/ and the README's "Deploy" section.
-# .ci/run runs this file's `dotnet publish` line as it stands (into a temporary directory), and
+# No engine builds this image in CI: .ci/run replays the build stage (its COPY lines, then its dotnet restore and
+# dotnet publish lines as they stand) in a temporary directory and probes the published service, and
 # tests/Partwise.Deployment.Tests checks this file against the app and k8s/.
 
 FROM mcr.microsoft.com/dotnet/sdk:10.0 AS build
