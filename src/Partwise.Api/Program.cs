@@ -12,7 +12,12 @@ using Partwise.Api.Summary;
 
 if (HashKeyCommand.TryRun(args))
 {
-    return;
+    return 0;
+}
+
+if (HealthProbe.IsRequested(args))
+{
+    return await HealthProbe.RunAsync(args, Console.Error);
 }
 
 var builder = WebApplication.CreateBuilder(args);
@@ -48,3 +53,4 @@ app.MapScreenings();
 app.MapFlags();
 
 app.Run();
+return 0;
