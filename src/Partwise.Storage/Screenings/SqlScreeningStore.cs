@@ -98,8 +98,8 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
         await using var flag = connection.Command(
             transaction,
             """
-            INSERT INTO flags (seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status)
-            VALUES (@seq, @id, @baselineId, @sampleId, @observedAt, @source, @screenedAt, @distance, @pValue, @reasons, 'open')
+            INSERT INTO flags (seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status, sample_values)
+            VALUES (@seq, @id, @baselineId, @sampleId, @observedAt, @source, @screenedAt, @distance, @pValue, @reasons, 'open', @sampleValues)
             """);
         flag.Add("@seq", 0L);
         flag.Add("@id", null);
@@ -111,6 +111,7 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
         flag.Add("@distance", 0.0);
         flag.Add("@pValue", 0.0);
         flag.Add("@reasons", null);
+        flag.Add("@sampleValues", null);
 
         await using var select = SelectCommand(connection, transaction);
         select.Set("@baselineId", baselineId);
@@ -152,6 +153,7 @@ internal sealed class SqlScreeningStore(StoreDatabase database, ChangeWatcher wa
                     flag.Set("@distance", raised.Distance);
                     flag.Set("@pValue", raised.PValue);
                     flag.Set("@reasons", raised.ReasonsJson);
+                    flag.Set("@sampleValues", raised.ValuesJson);
                     await flag.ExecuteNonQueryAsync(ct);
                 }
 
