@@ -5,6 +5,7 @@ using Partwise.Api.Flags;
 using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.OpenApi;
+using Partwise.Api.Review;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
 
@@ -35,5 +36,6 @@ app.MapAnalysis();
 app.MapBaselines();
 app.MapScreenings();
 app.MapFlags();
+app.MapReviewPage();
 
 app.Run();
