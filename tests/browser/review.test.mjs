@@ -168,6 +168,15 @@ async function main() {
     const open = (await api(`/v1/flags?baseline=${baseline.id}&status=open&limit=500`)).json.items;
     check("the API no longer lists it as open", !open.some((f) => f.id === result.flagId));
     check("the page raised no script errors", pageErrors.length === 0, pageErrors.join(" | "));
+
+    // A key entered once is kept in sessionStorage and sent as a Bearer credential on the page's API calls.
+    await page.fill("#api-key", "review-test-key");
+    const withKey = page.waitForRequest((r) => r.url().includes("/v1/flags?"), { timeout: 10000 });
+    await page.press("#api-key", "Enter");
+    const sent = (await withKey).headers().authorization;
+    const kept = await page.evaluate(() => sessionStorage.getItem("partwise.apiKey"));
+    check("an entered key is kept for the tab and sent as Authorization: Bearer", sent === "Bearer review-test-key" && kept === "review-test-key", `${sent} / ${kept}`);
+    await page.click("#key-forget");
   } finally {
     await context.close();
     rmSync(profile, { recursive: true, force: true });
