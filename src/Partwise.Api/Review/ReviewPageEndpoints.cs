@@ -12,13 +12,16 @@ public static class ReviewPageEndpoints
 {
     private static readonly Dictionary<string, (string ContentType, byte[] Body, string ETag)> Files = Load();
 
-    /// <summary>Maps <c>GET /review</c> and its two assets; none of them is part of the API contract.</summary>
+    /// <summary>
+    /// Maps <c>GET /review</c> and its two assets, open to every caller (the page holds no data; its API calls carry
+    /// the reviewer's key); none of them is part of the API contract.
+    /// </summary>
     public static IEndpointRouteBuilder MapReviewPage(this IEndpointRouteBuilder app)
     {
         ArgumentNullException.ThrowIfNull(app);
-        app.MapGet("/review", (HttpContext context) => Serve(context, "index.html")).ExcludeFromDescription();
-        app.MapGet("/review/review.css", (HttpContext context) => Serve(context, "review.css")).ExcludeFromDescription();
-        app.MapGet("/review/review.js", (HttpContext context) => Serve(context, "review.js")).ExcludeFromDescription();
+        app.MapGet("/review", (HttpContext context) => Serve(context, "index.html")).ExcludeFromDescription().AllowAnonymous();
+        app.MapGet("/review/review.css", (HttpContext context) => Serve(context, "review.css")).ExcludeFromDescription().AllowAnonymous();
+        app.MapGet("/review/review.js", (HttpContext context) => Serve(context, "review.js")).ExcludeFromDescription().AllowAnonymous();
         return app;
     }
 
