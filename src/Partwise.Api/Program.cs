@@ -7,6 +7,7 @@ using Partwise.Api.Health;
 using Partwise.Api.Infrastructure;
 using Partwise.Api.Infrastructure.Metrics;
 using Partwise.Api.Infrastructure.OpenApi;
+using Partwise.Api.Review;
 using Partwise.Api.Selection;
 using Partwise.Api.Summary;
 
@@ -51,6 +52,7 @@ app.MapAnalysis();
 app.MapBaselines();
 app.MapScreenings();
 app.MapFlags();
+app.MapReviewPage();
 
 app.Run();
 return 0;

@@ -1,9 +1,7 @@
 using System.Net.Http.Headers;
-using System.Security.Claims;
-using Microsoft.AspNetCore.Builder;
+using System.Security.Cryptography;
+using System.Text;
 using Microsoft.AspNetCore.Hosting;
-using Microsoft.AspNetCore.TestHost;
-using Microsoft.Extensions.DependencyInjection;
 using Partwise.Api.Tests.Support;
 using Serilog.Events;
 
@@ -65,8 +63,7 @@ public class LoggingTests
     public async Task TheCompletionEventNamesTheCallersKeyButNeverTheCredentialsOrTheValues()
     {
         await using var factory = new PartwiseFactory();
-        // What the credentials' handler leaves on the request: an identity named after the caller's key.
-        using var keyed = factory.WithWebHostBuilder(b => b.ConfigureTestServices(s => s.AddSingleton<IStartupFilter, KeyNameFilter>()));
+        using var keyed = factory.WithWebHostBuilder(WithKey);
         using var client = keyed.CreateClient();
         using var request = new HttpRequestMessage(HttpMethod.Post, new Uri("/v1/coordinates", UriKind.Relative))
         {
@@ -75,7 +72,7 @@ public class LoggingTests
                 System.Text.Encoding.UTF8,
                 "application/json"),
         };
-        request.Headers.Authorization = new AuthenticationHeaderValue("Bearer", "pw-secret-0c9e4f71d2");
+        request.Headers.Authorization = new AuthenticationHeaderValue("Bearer", LoggedKey);
         request.Headers.Add("X-Request-Id", "log-key-1");
         using var response = await client.SendAsync(request);
         await response.OkJson();
@@ -86,7 +83,7 @@ public class LoggingTests
         foreach (var e in factory.Logs.Events)
         {
             var text = e.RenderMessage() + string.Join(" ", e.Properties.Select(p => p.Key + "=" + p.Value));
-            Assert.DoesNotContain("pw-secret-0c9e4f71d2", text, StringComparison.Ordinal);
+            Assert.DoesNotContain(LoggedKey, text, StringComparison.Ordinal);
             Assert.DoesNotContain("Bearer", text, StringComparison.OrdinalIgnoreCase);
             Assert.DoesNotContain("Authorization", text, StringComparison.OrdinalIgnoreCase);
             Assert.DoesNotContain("41.203", text, StringComparison.Ordinal);
@@ -95,10 +92,11 @@ public class LoggingTests
     }
 
     [Fact]
-    public async Task AnAnonymousRequestLogsNoKey()
+    public async Task ARequestWithoutAKeyLogsNoKey()
     {
         await using var factory = new PartwiseFactory();
-        using var client = factory.CreateClient();
+        using var keyed = factory.WithWebHostBuilder(WithKey);
+        using var client = keyed.CreateClient();
         using var response = await client.GetAsync(new Uri("/healthz", UriKind.Relative));
         await response.OkJson();
         var completion = Assert.Single(factory.Logs.Events, IsCompletion);
@@ -111,16 +109,11 @@ public class LoggingTests
     private static string Source(LogEvent e) =>
         e.Properties.TryGetValue("SourceContext", out var value) ? value.ToString().Trim('"') : "";
 
-    private sealed class KeyNameFilter : IStartupFilter
-    {
-        public Action<IApplicationBuilder> Configure(Action<IApplicationBuilder> next) => app =>
-        {
-            app.Use((context, following) =>
-            {
-                context.User = new ClaimsPrincipal(new ClaimsIdentity([new Claim(ClaimTypes.Name, "lab-ingest")], "test-key"));
-                return following(context);
-            });
-            next(app);
-        };
-    }
+    private const string LoggedKey = "pw-secret-0c9e4f71d2";
+
+    // One configured key, named lab-ingest, for the key above (stored as its SHA-256, as the configuration keeps it).
+    private static void WithKey(IWebHostBuilder builder) => builder
+        .UseSetting("Partwise:Credentials:Keys:0:Name", "lab-ingest")
+        .UseSetting("Partwise:Credentials:Keys:0:Sha256", Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(LoggedKey))))
+        .UseSetting("Partwise:Credentials:Keys:0:Roles:0", "reader");
 }

@@ -66,6 +66,7 @@ public class OpenApiTests(PartwiseFactory factory) : IClassFixture<PartwiseFacto
                 "GET /readyz",
                 "GET /v1/baselines",
                 "GET /v1/baselines/{id}",
+                "GET /v1/baselines/{id}/biplot",
                 "GET /v1/flags",
                 "POST /v1/baselines",
                 "POST /v1/baselines/{id}/screenings",

@@ -77,6 +77,8 @@ public static class BaselineEndpoints
                 "is still returned (screening it gives 410). An unknown id is a 404 `/problems/not-found`." + Caution)
             .ProducesProblem(StatusCodes.Status404NotFound);
 
+        group.MapBiplot();
+
         group.MapDelete("/{id}", Retire)
             .RequireRole(Roles.Admin)
             .WithName("RetireBaseline")

@@ -143,7 +143,7 @@ public static class ScreeningEndpoints
                 BaselineJson.Write(result),
                 item.ObservedAt,
                 item.Source,
-                result.Flagged ? new ScreeningFlag(result.Distance, result.PValue, BaselineJson.Write(result.Reasons)) : null);
+                result.Flagged ? new ScreeningFlag(result.Distance, result.PValue, BaselineJson.Write(result.Reasons), BaselineJson.Write(item.Values!)) : null);
         }
 
         var batch = await storage.Screenings.RecordBatchAsync(id, entries, cancellationToken).ConfigureAwait(false);

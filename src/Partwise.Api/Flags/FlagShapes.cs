@@ -17,6 +17,7 @@ namespace Partwise.Api.Flags;
 /// <param name="Reasons">The ratios with the largest |z| at screening.</param>
 /// <param name="Status"><c>open</c> until reviewed, then <c>confirmed</c> or <c>dismissed</c>.</param>
 /// <param name="Review">The latest review, or null while open.</param>
+/// <param name="Values">The sample's values as sent (part name to value), or null for a flag raised before the service kept them.</param>
 public sealed record FlagItem(
     string Id,
     string BaselineId,
@@ -28,7 +29,8 @@ public sealed record FlagItem(
     double PValue,
     IReadOnlyList<ReasonItem> Reasons,
     string Status,
-    [property: JsonIgnore(Condition = JsonIgnoreCondition.Never)] ReviewItem? Review)
+    [property: JsonIgnore(Condition = JsonIgnoreCondition.Never)] ReviewItem? Review,
+    [property: JsonIgnore(Condition = JsonIgnoreCondition.Never)] IReadOnlyDictionary<string, double>? Values)
 {
     /// <summary>The wire form of a stored flag.</summary>
     public static FlagItem From(FlagRecord flag)
@@ -45,7 +47,8 @@ public sealed record FlagItem(
             flag.PValue,
             BaselineJson.Read<ReasonItem[]>(flag.ReasonsJson),
             FlagStatusNames.ToName(flag.Status),
-            flag.Review is { } r ? new ReviewItem(FlagStatusNames.ToName(r.Status), r.Note, r.Reviewer, r.ReviewedAt) : null);
+            flag.Review is { } r ? new ReviewItem(FlagStatusNames.ToName(r.Status), r.Note, r.Reviewer, r.ReviewedAt) : null,
+            flag.ValuesJson is { } values ? BaselineJson.Read<Dictionary<string, double>>(values) : null);
     }
 }
 

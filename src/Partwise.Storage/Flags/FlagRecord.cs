@@ -49,6 +49,7 @@ public sealed record FlagReview(FlagStatus Status, string? Note, string? Reviewe
 /// <param name="ReasonsJson">The reasons, a JSON array as given at screening.</param>
 /// <param name="Status">Open until reviewed.</param>
 /// <param name="Review">The latest review, or null while open.</param>
+/// <param name="ValuesJson">The sample's values as sent (a JSON object from part name to value), or null for a flag raised before they were kept.</param>
 public sealed record FlagRecord(
     string Id,
     long Sequence,
@@ -61,4 +62,5 @@ public sealed record FlagRecord(
     double PValue,
     string ReasonsJson,
     FlagStatus Status,
-    FlagReview? Review);
+    FlagReview? Review,
+    string? ValuesJson = null);

@@ -8,7 +8,7 @@ namespace Partwise.Storage.Flags;
 internal static class FlagRows
 {
     public const string Columns =
-        "seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status, review_note, reviewer, reviewed_at";
+        "seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status, review_note, reviewer, reviewed_at, sample_values";
 
     /// <summary>
     /// Bumps the change counter by one inside <paramref name="transaction"/> and returns the new token. The row's
@@ -86,7 +86,8 @@ internal static class FlagRows
             PValue: reader.GetDouble(8),
             ReasonsJson: reader.GetString(9),
             Status: status,
-            Review: review);
+            Review: review,
+            ValuesJson: reader.GetNullableString(14));
     }
 
     /// <summary>observed_at is round-trip text so that the caller's offset survives.</summary>

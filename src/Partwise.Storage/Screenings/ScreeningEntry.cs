@@ -25,4 +25,5 @@ public sealed record ScreeningEntry(
 /// <param name="Distance">The Mahalanobis distance; finite and non-negative.</param>
 /// <param name="PValue">The p-value, in [0, 1].</param>
 /// <param name="ReasonsJson">The reasons as a JSON array, stored as given.</param>
-public sealed record ScreeningFlag(double Distance, double PValue, string ReasonsJson);
+/// <param name="ValuesJson">The sample's values as sent (a JSON object from part name to value), stored as given, or null.</param>
+public sealed record ScreeningFlag(double Distance, double PValue, string ReasonsJson, string? ValuesJson = null);

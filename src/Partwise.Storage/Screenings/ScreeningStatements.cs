@@ -54,8 +54,8 @@ internal sealed class ScreeningStatements : IAsyncDisposable
         flag = connection.Command(
             null,
             """
-            INSERT INTO flags (seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status)
-            VALUES (@seq, @id, @baselineId, @sampleId, @observedAt, @source, @screenedAt, @distance, @pValue, @reasons, 'open')
+            INSERT INTO flags (seq, id, baseline_id, sample_id, observed_at, source, screened_at, distance, p_value, reasons, status, sample_values)
+            VALUES (@seq, @id, @baselineId, @sampleId, @observedAt, @source, @screenedAt, @distance, @pValue, @reasons, 'open', @sampleValues)
             """);
         flag.Add("@seq", 0L);
         flag.Add("@id", null);
@@ -67,6 +67,7 @@ internal sealed class ScreeningStatements : IAsyncDisposable
         flag.Add("@distance", 0.0);
         flag.Add("@pValue", 0.0);
         flag.Add("@reasons", null);
+        flag.Add("@sampleValues", null);
 
         select = Select(connection, null);
         bump = connection.Command(null, FlagRows.BumpSql);
@@ -147,6 +148,7 @@ internal sealed class ScreeningStatements : IAsyncDisposable
         flag.Set("@distance", raised.Distance);
         flag.Set("@pValue", raised.PValue);
         flag.Set("@reasons", raised.ReasonsJson);
+        flag.Set("@sampleValues", raised.ValuesJson);
         await flag.ExecuteNonQueryAsync(ct);
     }
 

@@ -95,8 +95,25 @@ public abstract partial class StoreBehaviour
         Assert.Equal(entry.Flag!.Distance, flag.Distance);
         Assert.Equal(entry.Flag.PValue, flag.PValue);
         Assert.Equal(entry.Flag.ReasonsJson, flag.ReasonsJson);
+        Assert.Equal(entry.Flag.ValuesJson, flag.ValuesJson);
         Assert.Equal(FlagStatus.Open, flag.Status);
         Assert.Null(flag.Review);
+    }
+
+    [StoreFact]
+    public async Task AFlagWithoutSampleValuesReadsBackWithNone()
+    {
+        var baseline = await CreateBaselineAsync();
+        var entry = Samples.Entry("well-07/2026-03-03", flagged: true);
+        entry = entry with { Flag = entry.Flag! with { ValuesJson = null } };
+
+        var stored = Assert.Single((await Store.Screenings.RecordAsync(baseline.Id, entry, CancellationToken.None)).Outcomes).Stored!;
+
+        var flag = await Store.Flags.GetAsync(stored.FlagId!, CancellationToken.None);
+        Assert.NotNull(flag);
+        Assert.Null(flag.ValuesJson);
+        var reviewed = await Store.Flags.ReviewAsync(flag.Id, FlagStatus.Dismissed, "n", "r", CancellationToken.None);
+        Assert.Null(reviewed!.ValuesJson);
     }
 
     [StoreFact]

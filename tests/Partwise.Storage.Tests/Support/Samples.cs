@@ -34,6 +34,6 @@ public static class Samples
             result,
             new DateTimeOffset(2026, 3, 2, 9, 30, 0, TimeSpan.FromHours(1)),
             source,
-            flagged ? new ScreeningFlag(distance, 0.002, """[{"label":"Na/Cl","value":1.9,"z":3.4,"expected":[0.5,0.9]}]""") : null);
+            flagged ? new ScreeningFlag(distance, 0.002, """[{"label":"Na/Cl","value":1.9,"z":3.4,"expected":[0.5,0.9]}]""", JsonSerializer.Serialize(values)) : null);
     }
 }
