@@ -25,6 +25,8 @@ app.UseRequestId();
 app.UsePartwiseRequestLogging();
 app.UseExceptionHandler();
 app.UseStatusCodeProblems();
+app.UseRateLimiter();
+app.UseRequestTimeouts();
 app.UsePartwiseOpenApi();
 
 app.MapHealth();

@@ -15,7 +15,7 @@ public static class AnalysisEndpoints
     /// <summary>Maps <c>/v1/lra</c>.</summary>
     public static RouteGroupBuilder MapAnalysis(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems();
+        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems().WithComputeLimits();
 
         group.MapPost("/lra", Analyse)
             .WithName("AnalyseLogRatios")
@@ -50,7 +50,8 @@ public static class AnalysisEndpoints
     /// <param name="request">The table, zero policy, weights and dimensions.</param>
     /// <param name="http">The request, whose <c>Accept</c> says whether the biplot's two dimensions are needed.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<PictureOk<LraResponse>, ProblemHttpResult> Analyse(LraRequest request, HttpRequest http, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<PictureOk<LraResponse>, ProblemHttpResult> Analyse(LraRequest request, HttpRequest http, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(http);
@@ -72,7 +73,7 @@ public static class AnalysisEndpoints
                 dimensions = dimensions >= 1 && dimensions <= available ? Math.Max(dimensions, 2) : dimensions;
             }
 
-            var result = LogRatioAnalysis.Run(zeros.Table, WeightsOption.ToSpec(request.Weights), dimensions);
+            var result = LogRatioAnalysis.Run(zeros.Table, WeightsOption.ToSpec(request.Weights), dimensions, cancellationToken);
             return PictureResults.Ok(new LraResponse(
                 result.SingularValues,
                 result.Inertia,

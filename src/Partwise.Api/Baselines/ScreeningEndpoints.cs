@@ -31,6 +31,7 @@ public static class ScreeningEndpoints
         ArgumentNullException.ThrowIfNull(app);
         app.MapGroup("/v1/baselines").WithTags("Screening")
             .MapPost("/{id}/screenings", ScreenStored)
+            .WithScreeningLimits()
             .WithName("ScreenSamples")
             .WithSummary("Screen samples against a stored baseline")
             .WithDescription(
@@ -53,6 +54,7 @@ public static class ScreeningEndpoints
 
         app.MapGroup("/v1").WithTags("Screening")
             .MapPost("/screenings", ScreenInline)
+            .WithScreeningLimits()
             .WithName("ScreenSamplesInline")
             .WithSummary("Screen samples against a baseline document sent with them")
             .WithDescription(

@@ -1,0 +1,69 @@
+using System.Globalization;
+using Microsoft.Extensions.Options;
+
+namespace Partwise.Api.Infrastructure;
+
+/// <summary>
+/// Per-caller rate limits, bound from <c>Partwise:RateLimits</c>: one token bucket per caller for screening and one for
+/// the compute routes. The defaults sit above what one small (2-core) machine serves, so that they stop a runaway
+/// client without throttling an instrument, a pipeline or the load scripts; lower them where callers share a service.
+/// </summary>
+public sealed class RateLimitsOptions
+{
+    /// <summary>The configuration section the rate limits are bound from.</summary>
+    public const string Section = "Partwise:RateLimits";
+
+    /// <summary><c>POST /v1/baselines/{id}/screenings</c> and <c>POST /v1/screenings</c>: 1,000 per second, bursts of 2,000.</summary>
+    public RateLimitSettings Screening { get; set; } = new() { PermitsPerSecond = 1_000, Burst = 2_000 };
+
+    /// <summary>The compute routes (coordinates, inverse, prepare, summary, distances, lra, ratio selection and sets, baseline fits): 500 per second, bursts of 1,000.</summary>
+    public RateLimitSettings Compute { get; set; } = new() { PermitsPerSecond = 500, Burst = 1_000 };
+}
+
+/// <summary>One token bucket: <see cref="PermitsPerSecond"/> tokens refill it up to <see cref="Burst"/>; a request takes one.</summary>
+public sealed class RateLimitSettings
+{
+    /// <summary>The sustained rate per caller, in requests per second (fractions allowed); 0 turns the limit off.</summary>
+    public double PermitsPerSecond { get; set; }
+
+    /// <summary>The most requests a caller may make at once after a quiet spell (the bucket's size); at least 1 when limited.</summary>
+    public int Burst { get; set; }
+
+    /// <summary>True when <see cref="PermitsPerSecond"/> is 0: no limit.</summary>
+    public bool IsUnlimited => PermitsPerSecond == 0;
+}
+
+/// <summary>Rejects rate limits that are negative, not finite or leave no room for a single request.</summary>
+public sealed class RateLimitsOptionsValidator : IValidateOptions<RateLimitsOptions>
+{
+    /// <inheritdoc />
+    public ValidateOptionsResult Validate(string? name, RateLimitsOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        var failures = new List<string>();
+        Check(options.Screening, "Screening", failures);
+        Check(options.Compute, "Compute", failures);
+        return failures.Count == 0 ? ValidateOptionsResult.Success : ValidateOptionsResult.Fail(failures);
+    }
+
+    private static void Check(RateLimitSettings? settings, string name, List<string> failures)
+    {
+        var at = $"{RateLimitsOptions.Section}:{name}";
+        if (settings is null)
+        {
+            failures.Add($"{at} must be a section with PermitsPerSecond and Burst.");
+            return;
+        }
+
+        // A token bucket refills in whole tokens at most once per millisecond here, so rates beyond a million per second mean nothing.
+        if (!double.IsFinite(settings.PermitsPerSecond) || settings.PermitsPerSecond < 0 || settings.PermitsPerSecond > 1_000_000)
+        {
+            failures.Add(string.Create(CultureInfo.InvariantCulture, $"{at}:PermitsPerSecond must be between 0 (no limit) and 1,000,000; it is {settings.PermitsPerSecond}."));
+        }
+
+        if (!settings.IsUnlimited && settings.Burst < 1)
+        {
+            failures.Add(string.Create(CultureInfo.InvariantCulture, $"{at}:Burst must be at least 1 when PermitsPerSecond is set; it is {settings.Burst}."));
+        }
+    }
+}
