@@ -4,6 +4,7 @@ using Microsoft.AspNetCore.Mvc.Testing;
 using Microsoft.AspNetCore.TestHost;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
+using Microsoft.Extensions.Hosting;
 using Serilog.Core;
 using Serilog.Events;
 
@@ -25,7 +26,8 @@ public class PartwiseFactory : WebApplicationFactory<Program>
     {
     }
 
-    private PartwiseFactory(IReadOnlyDictionary<string, string?> settings)
+    /// <summary>A host with the given configuration overrides (for subclasses with their own server or services).</summary>
+    protected PartwiseFactory(IReadOnlyDictionary<string, string?> settings)
     {
         DataDirectory = Path.Combine(Path.GetTempPath(), "partwise-api-tests", Guid.NewGuid().ToString("N"));
         _settings = new Dictionary<string, string?>
@@ -38,6 +40,9 @@ public class PartwiseFactory : WebApplicationFactory<Program>
             _settings[key] = value;
         }
     }
+
+    /// <summary>The started host, for tests that stop it themselves.</summary>
+    public IHost? StartedHost { get; private set; }
 
     /// <summary>This host's SQLite data directory.</summary>
     public string DataDirectory { get; }
@@ -59,6 +64,14 @@ public class PartwiseFactory : WebApplicationFactory<Program>
         ArgumentNullException.ThrowIfNull(builder);
         builder.ConfigureAppConfiguration(c => c.AddInMemoryCollection(_settings));
         builder.ConfigureTestServices(services => services.AddSingleton<ILogEventSink>(Logs));
+    }
+
+    /// <inheritdoc />
+    protected override IHost CreateHost(IHostBuilder builder)
+    {
+        var host = base.CreateHost(builder);
+        StartedHost = host;
+        return host;
     }
 
     /// <inheritdoc />
