@@ -34,7 +34,7 @@ public static class ComputeLimits
     /// <summary>What the compute limits add to a route's description.</summary>
     public const string ComputeDescription =
         "\n\nLimits: each caller (its key, else its address) has a token bucket of `Partwise:RateLimits:Compute` " +
-        "(default 500 requests per second, bursts of 1,000) shared by the compute routes; over it the answer is 429 " +
+        "(default 1,000 requests per second, bursts of 2,000) shared by the compute routes; over it the answer is 429 " +
         "`/problems/rate-limited` with `Retry-After` in seconds. A computation that runs longer than " +
         "`Partwise:Limits:ComputeTimeoutSeconds` (default 30 s) is stopped and answered 503 `/problems/timeout`; a " +
         "caller that disconnects stops it too.";

@@ -5,8 +5,9 @@ namespace Partwise.Api.Infrastructure;
 
 /// <summary>
 /// Per-caller rate limits, bound from <c>Partwise:RateLimits</c>: one token bucket per caller for screening and one for
-/// the compute routes. The defaults sit above what one small (2-core) machine serves, so that they stop a runaway
-/// client without throttling an instrument, a pipeline or the load scripts; lower them where callers share a service.
+/// the compute routes. The defaults sit above what one caller sending one request at a time gets from a small (2-core)
+/// machine, so that they stop a runaway client without throttling an instrument, a pipeline or the reference checks;
+/// lower them where callers share a service. The load script turns them off, to measure the service alone.
 /// </summary>
 public sealed class RateLimitsOptions
 {
@@ -16,8 +17,8 @@ public sealed class RateLimitsOptions
     /// <summary><c>POST /v1/baselines/{id}/screenings</c> and <c>POST /v1/screenings</c>: 1,000 per second, bursts of 2,000.</summary>
     public RateLimitSettings Screening { get; set; } = new() { PermitsPerSecond = 1_000, Burst = 2_000 };
 
-    /// <summary>The compute routes (coordinates, inverse, prepare, summary, distances, lra, ratio selection and sets, baseline fits): 500 per second, bursts of 1,000.</summary>
-    public RateLimitSettings Compute { get; set; } = new() { PermitsPerSecond = 500, Burst = 1_000 };
+    /// <summary>The compute routes (coordinates, inverse, prepare, summary, distances, lra, ratio selection and sets, baseline fits): 1,000 per second, bursts of 2,000.</summary>
+    public RateLimitSettings Compute { get; set; } = new() { PermitsPerSecond = 1_000, Burst = 2_000 };
 }
 
 /// <summary>One token bucket: <see cref="PermitsPerSecond"/> tokens refill it up to <see cref="Burst"/>; a request takes one.</summary>

@@ -115,8 +115,8 @@ public class RateLimitTests
         var options = new RateLimitsOptions();
         Assert.Equal(1_000, options.Screening.PermitsPerSecond);
         Assert.Equal(2_000, options.Screening.Burst);
-        Assert.Equal(500, options.Compute.PermitsPerSecond);
-        Assert.Equal(1_000, options.Compute.Burst);
+        Assert.Equal(1_000, options.Compute.PermitsPerSecond);
+        Assert.Equal(2_000, options.Compute.Burst);
     }
 
     [Theory]
