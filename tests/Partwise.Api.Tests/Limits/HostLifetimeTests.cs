@@ -14,7 +14,7 @@ using Serilog.Events;
 namespace Partwise.Api.Tests.Limits;
 
 /// <summary>
-/// The real server (Kestrel on loopback, ports 5320-5329) around the requests: a caller that disconnects stops its
+/// The real server (Kestrel on a free loopback port) around the requests: a caller that disconnects stops its
 /// computation, and a stop lets a screening in flight finish and commit before the host ends.
 /// </summary>
 public class HostLifetimeTests
@@ -22,7 +22,7 @@ public class HostLifetimeTests
     [Fact]
     public async Task AScreeningInFlightWhenTheHostStopsFinishesAndIsStored()
     {
-        using var factory = new ServerFactory(5321, ("Partwise:Shutdown:TimeoutSeconds", "20"));
+        using var factory = new ServerFactory(("Partwise:Shutdown:TimeoutSeconds", "20"));
         using var client = factory.CreateClient();
         var id = (await BaselineBodies.Create(client, BaselineBodies.Request("shutdown"))).GetProperty("id").GetString()!;
 
@@ -64,7 +64,7 @@ public class HostLifetimeTests
     [Fact]
     public async Task ACallerThatDisconnectsStopsTheComputation()
     {
-        using var factory = new ServerFactory(5322, ("Partwise:Limits:ComputeTimeoutSeconds", "0"));
+        using var factory = new ServerFactory(("Partwise:Limits:ComputeTimeoutSeconds", "0"));
         using var client = factory.CreateClient();
         using var gone = new CancellationTokenSource(TimeSpan.FromMilliseconds(700));
         using var content = new StringContent(ComputeTimeoutTests.WideTable(30, 1_000), Encoding.UTF8, "application/json");
@@ -108,13 +108,14 @@ public class HostLifetimeTests
 
     private static string Flatten(Exception e) => e.InnerException is null ? e.Message : e.Message + " " + Flatten(e.InnerException);
 
-    /// <summary>The test host on Kestrel at 127.0.0.1 on a given port, telling when a screening request arrives.</summary>
+    /// <summary>The test host on Kestrel at 127.0.0.1, telling when a screening request arrives.</summary>
     private sealed class ServerFactory : PartwiseFactory
     {
-        public ServerFactory(int port, params (string Key, string? Value)[] settings)
+        public ServerFactory(params (string Key, string? Value)[] settings)
             : base(settings.ToDictionary(s => s.Key, s => s.Value))
         {
-            UseKestrel(kestrel => kestrel.Listen(System.Net.IPAddress.Loopback, port));
+            // Port 0: the system picks a free one, so parallel runs on one machine do not collide.
+            UseKestrel(kestrel => kestrel.Listen(System.Net.IPAddress.Loopback, 0));
         }
 
         public TaskCompletionSource ScreeningArrived { get; } = new(TaskCreationOptions.RunContinuationsAsynchronously);
