@@ -32,6 +32,7 @@ public static class RateLimits
         {
             options.AddPolicy(ScreeningPolicy, context => Partition(context, limits.Value.Screening));
             options.AddPolicy(ComputePolicy, context => Partition(context, limits.Value.Compute));
+            options.RejectionStatusCode = StatusCodes.Status429TooManyRequests;
             options.OnRejected = Reject;
         });
         return services;
@@ -51,8 +52,8 @@ public static class RateLimits
 
     /// <summary>
     /// The token bucket for one rate: it holds <see cref="RateLimitSettings.Burst"/> tokens and gains t tokens every
-    /// t / r seconds for the rate r, with t the least whole number that makes the step at least 100 ms (so the rate is
-    /// exact). No queue: a request without a token is refused at once.
+    /// t / r seconds for the rate r, with t the least whole number that makes the step at least 100 ms but no more than
+    /// the bucket holds, so the rate is exact. No queue: a request without a token is refused at once.
     /// </summary>
     public static TokenBucketRateLimiterOptions BucketOf(RateLimitSettings settings)
     {

@@ -24,7 +24,7 @@ public sealed class RateLimitsOptions
 /// <summary>One token bucket: <see cref="PermitsPerSecond"/> tokens refill it up to <see cref="Burst"/>; a request takes one.</summary>
 public sealed class RateLimitSettings
 {
-    /// <summary>The sustained rate per caller, in requests per second (fractions allowed); 0 turns the limit off.</summary>
+    /// <summary>The sustained rate per caller, in requests per second (0.001 to 1,000,000, fractions allowed); 0 turns the limit off.</summary>
     public double PermitsPerSecond { get; set; }
 
     /// <summary>The most requests a caller may make at once after a quiet spell (the bucket's size); at least 1 when limited.</summary>
@@ -56,10 +56,12 @@ public sealed class RateLimitsOptionsValidator : IValidateOptions<RateLimitsOpti
             return;
         }
 
-        // A token bucket refills in whole tokens at most once per millisecond here, so rates beyond a million per second mean nothing.
-        if (!double.IsFinite(settings.PermitsPerSecond) || settings.PermitsPerSecond < 0 || settings.PermitsPerSecond > 1_000_000)
+        // Below one request per 1,000 s the bucket's refill timer would exceed what a timer can wait; beyond a million per
+        // second a limit means nothing.
+        var rate = settings.PermitsPerSecond;
+        if (!double.IsFinite(rate) || (rate != 0 && rate is < 0.001 or > 1_000_000))
         {
-            failures.Add(string.Create(CultureInfo.InvariantCulture, $"{at}:PermitsPerSecond must be between 0 (no limit) and 1,000,000; it is {settings.PermitsPerSecond}."));
+            failures.Add(string.Create(CultureInfo.InvariantCulture, $"{at}:PermitsPerSecond must be 0 (no limit) or between 0.001 and 1,000,000; it is {rate}."));
         }
 
         if (!settings.IsUnlimited && settings.Burst < 1)

@@ -149,6 +149,7 @@ public class RateLimitTests
     [Theory]
     [InlineData("Screening:PermitsPerSecond", "-1")]
     [InlineData("Compute:PermitsPerSecond", "2000000")]
+    [InlineData("Compute:PermitsPerSecond", "0.0001")]
     [InlineData("Compute:Burst", "0")]
     public void AnInvalidRateLimitStopsTheServiceAtStart(string name, string value)
     {
