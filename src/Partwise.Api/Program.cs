@@ -42,6 +42,8 @@ app.UseExceptionHandler();
 app.UseStatusCodeProblems();
 app.UsePartwiseOpenApi();
 app.UsePartwiseCredentials();
+app.UseRateLimiter();
+app.UseRequestTimeouts();
 
 app.MapHealth();
 app.MapPartwiseMetrics().AllowAnonymous();

@@ -47,8 +47,10 @@ else
     PROVIDER="sqlite, synchronous=${PARTWISE_LOAD_SQLITE_SYNCHRONOUS:-Full}"
 fi
 
-# Warning-level logs only: one console line per request would measure the console.
+# Warning-level logs only: one console line per request would measure the console. The per-caller rate limits are
+# off (0), so that wrk, one caller at 16 connections, measures the service and not the limiter.
 ( cd "$OUT" && exec env "${STORE[@]}" Partwise__Demo__Enabled=false ASPNETCORE_ENVIRONMENT=Production \
+    Partwise__RateLimits__Screening__PermitsPerSecond=0 Partwise__RateLimits__Compute__PermitsPerSecond=0 \
     Serilog__MinimumLevel__Default=Warning Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
     dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
 PID=$!

@@ -16,7 +16,7 @@ public static class AnalysisEndpoints
     /// <summary>Maps <c>/v1/lra</c>.</summary>
     public static RouteGroupBuilder MapAnalysis(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems().RequireAnyKey();
+        var group = app.MapGroup("/v1").WithTags("Analysis").ProducesTableProblems().RequireAnyKey().WithComputeLimits();
 
         group.MapPost("/lra", Analyse)
             .WithName("AnalyseLogRatios")
@@ -51,7 +51,8 @@ public static class AnalysisEndpoints
     /// <param name="request">The table, zero policy, weights and dimensions.</param>
     /// <param name="http">The request, whose <c>Accept</c> says whether the biplot's two dimensions are needed.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<PictureOk<LraResponse>, ProblemHttpResult> Analyse(LraRequest request, HttpRequest http, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<PictureOk<LraResponse>, ProblemHttpResult> Analyse(LraRequest request, HttpRequest http, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(http);
@@ -73,7 +74,7 @@ public static class AnalysisEndpoints
                 dimensions = dimensions >= 1 && dimensions <= available ? Math.Max(dimensions, 2) : dimensions;
             }
 
-            var result = LogRatioAnalysis.Run(zeros.Table, WeightsOption.ToSpec(request.Weights), dimensions);
+            var result = LogRatioAnalysis.Run(zeros.Table, WeightsOption.ToSpec(request.Weights), dimensions, cancellationToken);
             return PictureResults.Ok(new LraResponse(
                 result.SingularValues,
                 result.Inertia,

@@ -44,6 +44,7 @@ public static class BaselineEndpoints
                 "table also comes as text/csv with `name`, `description`, `scatter`, `cutoff` and the zero policy as " +
                 "query parameters (ilr coordinates only)." + Caution)
             .ProducesTableProblems()
+            .WithComputeLimits()
             .AcceptsTable<BaselineRequest>(
                 BaselineExamples.Baseline,
                 new CsvRequestMetadata(
@@ -96,20 +97,24 @@ public static class BaselineEndpoints
     /// <param name="request">The reference samples and options.</param>
     /// <param name="store">The store.</param>
     /// <param name="log">The request's completion event.</param>
-    /// <param name="cancellationToken">The request's cancellation.</param>
-    public static async Task<Results<Created<BaselineDocument>, ProblemHttpResult>> Create(BaselineRequest request, StoreAccess store, IDiagnosticContext log, CancellationToken cancellationToken)
+    /// <param name="http">The request, whose compute timeout ends once the fit is done.</param>
+    /// <param name="cancellationToken">The request's cancellation: the compute timeout or a caller that goes away stops the fit.</param>
+    public static async Task<Results<Created<BaselineDocument>, ProblemHttpResult>> Create(BaselineRequest request, StoreAccess store, IDiagnosticContext log, HttpContext http, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(store);
         PendingBaseline pending;
         try
         {
-            pending = PartwiseMetrics.TimeBaselineFit(() => BaselineFitting.Fit(request));
+            pending = PartwiseMetrics.TimeBaselineFit(() => BaselineFitting.Fit(request, cancellationToken));
         }
         catch (CompositionException e)
         {
             return ProblemCatalog.ToResult(e);
         }
+
+        // Once fitted, storing is not cut off by the timeout: a caller answered "timeout" must know nothing was stored.
+        ComputeLimits.EndTimeout(http);
 
         log.DescribeTable(pending.Table);
         var storage = await store.ReadyAsync(cancellationToken).ConfigureAwait(false);

@@ -40,7 +40,9 @@ public static class BaselineFitting
     /// Rousseeuw &amp; Van Driessen 1999; classical: mean and covariance), and builds the document.
     /// </summary>
     /// <exception cref="CompositionException">400 for shapes and names, 422 for what cannot be fitted (too few samples, a singular scatter, bad rules or cutoff).</exception>
-    public static PendingBaseline Fit(BaselineRequest request)
+    /// <param name="request">The reference samples and options.</param>
+    /// <param name="cancellationToken">Stops the ratio selection, the coordinates' row loop and the FAST-MCD search.</param>
+    public static PendingBaseline Fit(BaselineRequest request, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         var name = RequireName(request.Name);
@@ -57,16 +59,16 @@ public static class BaselineFitting
         var amalgamations = BaselineOptionsReader.Amalgamations(request.Amalgamations, parts, "/amalgamations");
         var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
         var reference = zeros.Table;
-        var (type, map, ratios, basis, explained) = Coordinates(request.Coordinates, reference);
+        var (type, map, ratios, basis, explained) = Coordinates(request.Coordinates, reference, cancellationToken);
         var p = map.Length / parts.Count;
         // The reference samples' coordinates y = (ln x) A, by the math library's own transforms.
-        var coordinates = basis is not null ? Ilr.Forward(reference, basis).Values : RatioSetTransform.Forward(reference, ratios!).Values;
+        var coordinates = basis is not null ? Ilr.Forward(reference, basis, cancellationToken).Values : RatioSetTransform.Forward(reference, ratios!, cancellationToken).Values;
         var named = NamedRatios(amalgamations, parts);
 
         FittedBaseline fitted;
         try
         {
-            fitted = BaselineFit.Fit(parts, map, coordinates, new BaselineOptions { Scatter = scatter, Cutoff = cutoff, NamedRatios = named, Rules = rules }, reference);
+            fitted = BaselineFit.Fit(parts, map, coordinates, new BaselineOptions { Scatter = scatter, Cutoff = cutoff, NamedRatios = named, Rules = rules }, reference, cancellationToken);
         }
         catch (CompositionException e)
         {
@@ -141,7 +143,7 @@ public static class BaselineFitting
             : throw new CompositionException(ProblemTypes.InvalidInput, "/name", string.Create(CultureInfo.InvariantCulture, $"The name has {name.Length} characters; at most {MaxNameLength}."));
     }
 
-    private static (string Type, double[] Map, LogRatio[]? Ratios, IlrBasis? Basis, double? Explained) Coordinates(BaselineCoordinatesOption? option, CompositionTable reference)
+    private static (string Type, double[] Map, LogRatio[]? Ratios, IlrBasis? Basis, double? Explained) Coordinates(BaselineCoordinatesOption? option, CompositionTable reference, CancellationToken cancellationToken)
     {
         var parts = reference.Parts;
         switch (option?.Type ?? (option is null ? "ilr" : null))
@@ -165,7 +167,7 @@ public static class BaselineFitting
                 RequireIndependent(parts, map, ratios.Length);
                 return ("ratios", map, ratios, null, null);
             case "selection":
-                var (selected, explained) = Select(option!, reference);
+                var (selected, explained) = Select(option!, reference, cancellationToken);
                 return ("selection", RatioMap(selected, parts.Count), selected, null, explained);
             case null:
                 throw new CompositionException(ProblemTypes.InvalidInput, "/coordinates/type", "The coordinates need \"type\": ilr, ratios or selection.");
@@ -180,7 +182,7 @@ public static class BaselineFitting
     /// <c>explained</c>. Only pairwise candidates enter, since an amalgamation ratio is not linear in the logs and so
     /// cannot be a coordinate; named amalgamations serve as reasons (the request's <c>amalgamations</c>).
     /// </summary>
-    private static (LogRatio[] Ratios, double Explained) Select(BaselineCoordinatesOption option, CompositionTable reference)
+    private static (LogRatio[] Ratios, double Explained) Select(BaselineCoordinatesOption option, CompositionTable reference, CancellationToken cancellationToken)
     {
         if (option.Amalgamations is { Count: > 0 })
         {
@@ -194,7 +196,7 @@ public static class BaselineFitting
         try
         {
             var weights = PartWeights.Resolve(PartWeightSpec.Equal, reference);
-            result = PartwiseMetrics.TimeSelection("baseline", () => RatioSelection.Run(reference, weights, new RatioSelectionOptions { MaxRatios = option.MaxRatios, Explained = option.Explained }));
+            result = PartwiseMetrics.TimeSelection("baseline", () => RatioSelection.Run(reference, weights, new RatioSelectionOptions { MaxRatios = option.MaxRatios, Explained = option.Explained }, cancellationToken));
         }
         catch (CompositionException e)
         {

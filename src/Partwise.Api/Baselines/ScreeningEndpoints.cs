@@ -34,6 +34,7 @@ public static class ScreeningEndpoints
         app.MapGroup("/v1/baselines").WithTags("Screening")
             .MapPost("/{id}/screenings", ScreenStored)
             .RequireRole(Roles.Submitter)
+            .WithScreeningLimits()
             .WithName("ScreenSamples")
             .WithSummary("Screen samples against a stored baseline")
             .WithDescription(
@@ -57,6 +58,7 @@ public static class ScreeningEndpoints
         app.MapGroup("/v1").WithTags("Screening")
             .MapPost("/screenings", ScreenInline)
             .RequireAnyKey()
+            .WithScreeningLimits()
             .WithName("ScreenSamplesInline")
             .WithSummary("Screen samples against a baseline document sent with them")
             .WithDescription(

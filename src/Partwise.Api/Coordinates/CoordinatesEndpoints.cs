@@ -27,7 +27,7 @@ public static class CoordinatesEndpoints
     /// <summary>Maps <c>/v1/compositions/prepare</c>, <c>/v1/coordinates</c> and <c>/v1/coordinates/inverse</c>.</summary>
     public static RouteGroupBuilder MapCoordinates(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Coordinates").ProducesTableProblems().RequireAnyKey();
+        var group = app.MapGroup("/v1").WithTags("Coordinates").ProducesTableProblems().RequireAnyKey().WithComputeLimits();
 
         group.MapPost("/compositions/prepare", Prepare)
             .WithName("PrepareCompositions")
@@ -117,7 +117,8 @@ public static class CoordinatesEndpoints
     /// <param name="request">The table, zero policy and transform.</param>
     /// <param name="limits">The computation limits.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<TableOk<CoordinatesResponse>, ProblemHttpResult> Forward(CoordinatesRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<TableOk<CoordinatesResponse>, ProblemHttpResult> Forward(CoordinatesRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(limits);
@@ -127,7 +128,7 @@ public static class CoordinatesEndpoints
             log.DescribeTable(table);
             log.Set("Transform", request.Transform?.Type);
             var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
-            var (coordinates, basis) = Transforms.Forward(zeros.Table, request.Transform, limits.Value.MaxResultValues);
+            var (coordinates, basis) = Transforms.Forward(zeros.Table, request.Transform, limits.Value.MaxResultValues, cancellationToken);
             return TableResults.Ok(new CoordinatesResponse(
                 coordinates.Columns,
                 coordinates.Ids,
@@ -144,7 +145,8 @@ public static class CoordinatesEndpoints
     /// <summary>Transforms coordinates back into closed compositions.</summary>
     /// <param name="request">The parts, transform, coordinates and total.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<TableOk<TableResponse>, ProblemHttpResult> Inverse(InverseRequest request, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<TableOk<TableResponse>, ProblemHttpResult> Inverse(InverseRequest request, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         try
@@ -173,7 +175,7 @@ public static class CoordinatesEndpoints
             log.Set("PartCount", parts.PartCount);
             log.Set("RowCount", values.Length / width);
             log.Set("Transform", type);
-            var table = Transforms.Inverse(parts, request.Transform, values, request.Total ?? 1.0, ids);
+            var table = Transforms.Inverse(parts, request.Transform, values, request.Total ?? 1.0, ids, cancellationToken);
             return TableResults.Ok(TableResponse.From(table));
         }
         catch (CompositionException e)

@@ -15,8 +15,9 @@ public static class Transforms
     /// <param name="table">Zeros already replaced.</param>
     /// <param name="option">The transform.</param>
     /// <param name="maxValues">The most numbers the result may hold.</param>
+    /// <param name="cancellationToken">Stops the transform's row loop.</param>
     /// <exception cref="CompositionException">Bad options (400/422), or a result over <paramref name="maxValues"/> (422).</exception>
-    public static (LogRatioCoordinates Coordinates, IlrBasis? Basis) Forward(CompositionTable table, TransformOption? option, long maxValues)
+    public static (LogRatioCoordinates Coordinates, IlrBasis? Basis) Forward(CompositionTable table, TransformOption? option, long maxValues, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var type = TransformOption.RequireType(option);
@@ -33,14 +34,14 @@ public static class Transforms
         {
             case "clr":
                 var weights = option!.Weights is null ? null : PartWeights.Resolve(WeightsOption.ToSpec(option.Weights, "/transform/weights"), table, "/transform/weights");
-                return (Clr.Forward(table, weights), null);
+                return (Clr.Forward(table, weights, cancellationToken), null);
             case "alr":
-                return (Alr.Forward(table, Denominator(table, option!)), null);
+                return (Alr.Forward(table, Denominator(table, option!), cancellationToken), null);
             case "ilr":
                 var basis = Basis(table.Parts, option!);
-                return (Ilr.Forward(table, basis), basis);
+                return (Ilr.Forward(table, basis, cancellationToken), basis);
             case "pairwise":
-                return (PairwiseLogRatios.Forward(table), null);
+                return (PairwiseLogRatios.Forward(table, cancellationToken), null);
             default:
                 if (option!.Ratios is not { Count: > 0 } ratios)
                 {
@@ -49,7 +50,7 @@ public static class Transforms
 
                 var set = ratios.Select((r, i) => (r ?? throw new CompositionException(ProblemTypes.InvalidInput, $"/transform/ratios/{i}", "A ratio must be an object, not null."))
                     .ToLogRatio(table.Parts, string.Create(CultureInfo.InvariantCulture, $"/transform/ratios/{i}"))).ToArray();
-                return (RatioSetTransform.Forward(table, set), null);
+                return (RatioSetTransform.Forward(table, set, cancellationToken), null);
         }
     }
 
@@ -66,23 +67,24 @@ public static class Transforms
     /// <param name="values">n × width coordinates, row-major.</param>
     /// <param name="total">κ for the closure.</param>
     /// <param name="ids">Optional row ids.</param>
-    public static CompositionTable Inverse(CompositionTable parts, TransformOption? option, double[] values, double total, IReadOnlyList<string>? ids)
+    /// <param name="cancellationToken">Stops the inverse's row loop.</param>
+    public static CompositionTable Inverse(CompositionTable parts, TransformOption? option, double[] values, double total, IReadOnlyList<string>? ids, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         var type = TransformOption.RequireType(option);
         switch (type)
         {
             case "clr":
-                return Clr.Inverse(parts.Parts, values, total, ids);
+                return Clr.Inverse(parts.Parts, values, total, ids, cancellationToken);
             case "alr":
-                return Alr.Inverse(parts.Parts, Denominator(parts, option!), values, total, ids);
+                return Alr.Inverse(parts.Parts, Denominator(parts, option!), values, total, ids, cancellationToken);
             case "ilr":
-                return Ilr.Inverse(Basis(parts.Parts, option!), values, total, ids);
+                return Ilr.Inverse(Basis(parts.Parts, option!), values, total, ids, cancellationToken);
             case "pairwise":
                 throw new CompositionException(ProblemTypes.InvalidOption, "/transform/type", "Pairwise log-ratios are not inverted here: all J(J − 1)/2 of them over-determine a composition. Send clr, alr or ilr coordinates.");
             default:
                 // The same back-transform as /v1/ratio-sets/reconstruct (Greenacre 2020).
-                return RatioSets.Reconstruct(parts, option!.Ratios, values, parts.PartCount - 1, total, ids, "/transform/ratios");
+                return RatioSets.Reconstruct(parts, option!.Ratios, values, parts.PartCount - 1, total, ids, "/transform/ratios", cancellationToken);
         }
     }
 

@@ -1,3 +1,4 @@
+using System.Globalization;
 using Microsoft.Extensions.Options;
 
 namespace Partwise.Api.Infrastructure;
@@ -31,6 +32,12 @@ public sealed class LimitsOptions
 
     /// <summary>Most samples one screening request may hold (default 1,000); more is a 413 <c>/problems/too-large</c>.</summary>
     public int MaxScreeningSamples { get; set; } = 1_000;
+
+    /// <summary>
+    /// The longest a compute request may run, in seconds (default 30; fractions allowed; 0: no limit). Past it the
+    /// computation is stopped and the answer is a 503 <c>/problems/timeout</c>.
+    /// </summary>
+    public double ComputeTimeoutSeconds { get; set; } = 30;
 }
 
 /// <summary>Rejects limits that would make the service refuse everything or accept unbounded work.</summary>
@@ -70,6 +77,11 @@ public sealed class LimitsOptionsValidator : IValidateOptions<LimitsOptions>
         if (options.MaxScreeningSamples < 1)
         {
             failures.Add($"{LimitsOptions.Section}:MaxScreeningSamples must be at least 1.");
+        }
+
+        if (!double.IsFinite(options.ComputeTimeoutSeconds) || options.ComputeTimeoutSeconds is < 0 or > 86_400)
+        {
+            failures.Add(string.Create(CultureInfo.InvariantCulture, $"{LimitsOptions.Section}:ComputeTimeoutSeconds must be between 0 (no limit) and 86,400 (a day); it is {options.ComputeTimeoutSeconds}."));
         }
 
         return failures.Count == 0 ? ValidateOptionsResult.Success : ValidateOptionsResult.Fail(failures);

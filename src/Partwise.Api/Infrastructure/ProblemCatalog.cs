@@ -42,6 +42,8 @@ public static class ProblemCatalog
         [ProblemTypes.Conflict] = (StatusCodes.Status409Conflict, "The request conflicts with what is stored"),
         [ProblemTypes.BaselineRetired] = (StatusCodes.Status410Gone, "The baseline is retired"),
         [ProblemTypes.StorageUnavailable] = (StatusCodes.Status503ServiceUnavailable, "Storage is unavailable"),
+        [ProblemTypes.RateLimited] = (StatusCodes.Status429TooManyRequests, "Too many requests from this caller"),
+        [ProblemTypes.Timeout] = (StatusCodes.Status503ServiceUnavailable, "The computation took too long"),
     };
 
     /// <summary>The HTTP status of a problem type: 422 for any type not in the table.</summary>

@@ -7,13 +7,19 @@ namespace Partwise.Api.Infrastructure;
 /// <summary>Service registrations of the host's plumbing, one method per concern, so that Program.cs reads as a list.</summary>
 public static class ServiceSetup
 {
-    /// <summary>Binds and validates <see cref="LimitsOptions"/> at start, and gives Kestrel the same body limit.</summary>
+    /// <summary>
+    /// Binds and validates <see cref="LimitsOptions"/> at start, gives Kestrel the same body limit, and registers the
+    /// compute timeout, the rate limits and the shutdown timeout.
+    /// </summary>
     public static IServiceCollection AddPartwiseLimits(this IServiceCollection services, IConfiguration configuration)
     {
         services.AddOptions<LimitsOptions>().Bind(configuration.GetSection(LimitsOptions.Section)).ValidateOnStart();
         services.AddSingleton<IValidateOptions<LimitsOptions>, LimitsOptionsValidator>();
         services.AddOptions<KestrelServerOptions>().Configure<IOptions<LimitsOptions>>((kestrel, limits) =>
             kestrel.Limits.MaxRequestBodySize = limits.Value.MaxBodyBytes);
+        services.AddPartwiseComputeTimeout();
+        services.AddPartwiseRateLimits(configuration);
+        services.AddPartwiseShutdown(configuration);
         return services;
     }
 

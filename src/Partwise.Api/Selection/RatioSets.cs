@@ -22,6 +22,7 @@ public static class RatioSets
     /// <param name="total">κ for the closure.</param>
     /// <param name="ids">Optional row ids.</param>
     /// <param name="ratiosPointer">Where the ratio list sits in the request: <c>/ratios</c> or <c>/transform/ratios</c>.</param>
+    /// <param name="cancellationToken">Stops the per-row solve.</param>
     /// <exception cref="CompositionException">The Core's problems (incomplete, singular or ill-conditioned sets, values giving a part ≤ 0), with ratio pointers under <paramref name="ratiosPointer"/>.</exception>
     public static CompositionTable Reconstruct(
         CompositionTable parts,
@@ -30,7 +31,8 @@ public static class RatioSets
         int width,
         double total,
         IReadOnlyList<string>? ids,
-        string ratiosPointer)
+        string ratiosPointer,
+        CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         ArgumentNullException.ThrowIfNull(values);
@@ -44,7 +46,7 @@ public static class RatioSets
         CompositionTable table;
         try
         {
-            table = RatioReconstruction.Solve(parts.Parts, set, rows, total);
+            table = RatioReconstruction.Solve(parts.Parts, set, rows, total, cancellationToken);
         }
         catch (CompositionException e) when (ratiosPointer != "/ratios")
         {

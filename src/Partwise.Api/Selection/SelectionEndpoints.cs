@@ -36,7 +36,7 @@ public static class SelectionEndpoints
     /// <summary>Maps <c>/v1/ratio-selection</c>, <c>/v1/ratio-sets/evaluate</c> and <c>/v1/ratio-sets/reconstruct</c>.</summary>
     public static RouteGroupBuilder MapSelection(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Ratio selection").ProducesTableProblems().RequireAnyKey();
+        var group = app.MapGroup("/v1").WithTags("Ratio selection").ProducesTableProblems().RequireAnyKey().WithComputeLimits();
 
         group.MapPost("/ratio-selection", Select)
             .WithName("SelectRatios")
@@ -140,7 +140,8 @@ public static class SelectionEndpoints
     /// <param name="request">The table or moments and the options.</param>
     /// <param name="limits">The size limits, for the moments' names.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<PictureOk<RatioSelectionResponse>, ProblemHttpResult> Select(RatioSelectionRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<PictureOk<RatioSelectionResponse>, ProblemHttpResult> Select(RatioSelectionRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(limits);
@@ -178,7 +179,7 @@ public static class SelectionEndpoints
                 log.Set("PartCount", names.Count - amalgamations.Length);
                 log.Set("RowCount", count);
                 var weights = MomentWeights(spec, names, amalgamations.Length);
-                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(new SelectionMoments(names, covariance, count), weights, options));
+                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(new SelectionMoments(names, covariance, count), weights, options, cancellationToken));
                 imputed = [];
             }
             else
@@ -187,7 +188,7 @@ public static class SelectionEndpoints
                 log.DescribeTable(table);
                 var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
                 var weights = PartWeights.Resolve(spec, zeros.Table);
-                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(zeros.Table, weights, options));
+                result = PartwiseMetrics.TimeSelection("ratio-selection", () => RatioSelection.Run(zeros.Table, weights, options, cancellationToken));
                 imputed = ImputedCellItem.From(zeros.Imputed);
             }
 
@@ -209,7 +210,8 @@ public static class SelectionEndpoints
     /// <summary>Evaluates an analyst's ratio set on a table.</summary>
     /// <param name="request">The table, zero policy, ratios and weights.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<Ok<RatioSetEvaluationResponse>, ProblemHttpResult> Evaluate(RatioSetEvaluationRequest request, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<Ok<RatioSetEvaluationResponse>, ProblemHttpResult> Evaluate(RatioSetEvaluationRequest request, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         try
@@ -220,7 +222,7 @@ public static class SelectionEndpoints
             log.Set("RatioCount", ratios.Length);
             var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
             var weights = PartWeights.Resolve(WeightsOption.ToSpec(request.Weights), zeros.Table);
-            var result = RatioSetEvaluation.Evaluate(zeros.Table, ratios, weights);
+            var result = RatioSetEvaluation.Evaluate(zeros.Table, ratios, weights, cancellationToken);
             return TypedResults.Ok(new RatioSetEvaluationResponse(
                 result.Explained,
                 result.Procrustes,
@@ -240,7 +242,8 @@ public static class SelectionEndpoints
     /// <summary>Turns the values of a complete ratio set back into closed compositions.</summary>
     /// <param name="request">The parts, ratios, values and total.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<TableOk<TableResponse>, ProblemHttpResult> Reconstruct(RatioReconstructionRequest request, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<TableOk<TableResponse>, ProblemHttpResult> Reconstruct(RatioReconstructionRequest request, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         try
@@ -272,7 +275,7 @@ public static class SelectionEndpoints
 
             log.Set("PartCount", parts.PartCount);
             log.Set("RowCount", width == 0 ? 0 : values.Length / width);
-            var table = RatioSets.Reconstruct(parts, request.Ratios, values, width, request.Total ?? 1.0, ids, "/ratios");
+            var table = RatioSets.Reconstruct(parts, request.Ratios, values, width, request.Total ?? 1.0, ids, "/ratios", cancellationToken);
             return TableResults.Ok(TableResponse.From(table));
         }
         catch (CompositionException e)

@@ -24,7 +24,7 @@ public static class SummaryEndpoints
     /// <summary>Maps <c>/v1/summary</c> and <c>/v1/distances</c>.</summary>
     public static RouteGroupBuilder MapSummary(this IEndpointRouteBuilder app)
     {
-        var group = app.MapGroup("/v1").WithTags("Summary").ProducesTableProblems().RequireAnyKey();
+        var group = app.MapGroup("/v1").WithTags("Summary").ProducesTableProblems().RequireAnyKey().WithComputeLimits();
 
         group.MapPost("/summary", Summarise)
             .WithName("SummariseTable")
@@ -60,7 +60,8 @@ public static class SummaryEndpoints
     /// <summary>Applies the zero policy and summarises the table.</summary>
     /// <param name="request">The table, zero policy and weights.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<Ok<SummaryResponse>, ProblemHttpResult> Summarise(SummaryRequest request, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<Ok<SummaryResponse>, ProblemHttpResult> Summarise(SummaryRequest request, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         try
@@ -69,7 +70,7 @@ public static class SummaryEndpoints
             log.DescribeTable(table);
             var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
             var weights = PartWeights.Resolve(WeightsOption.ToSpec(request.Weights), zeros.Table);
-            var summary = CompositionSummary.Compute(zeros.Table, weights);
+            var summary = CompositionSummary.Compute(zeros.Table, weights, cancellationToken);
             var j = table.PartCount;
             return TypedResults.Ok(new SummaryResponse(
                 table.Parts,
@@ -92,7 +93,8 @@ public static class SummaryEndpoints
     /// <param name="request">The table and zero policy.</param>
     /// <param name="limits">The computation limits.</param>
     /// <param name="log">The request's completion event, for its shape fields.</param>
-    public static Results<TableOk<DistancesResponse>, ProblemHttpResult> Distances(DistancesRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log)
+    /// <param name="cancellationToken">The request's token: the compute timeout, or a caller that goes away, stops the computation.</param>
+    public static Results<TableOk<DistancesResponse>, ProblemHttpResult> Distances(DistancesRequest request, IOptions<LimitsOptions> limits, IDiagnosticContext log, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(limits);
@@ -110,7 +112,7 @@ public static class SummaryEndpoints
             }
 
             var zeros = ZeroReplacement.Apply(table, ZerosOption.ToPolicy(request.Zeros));
-            var matrix = AitchisonDistance.Matrix(zeros.Table);
+            var matrix = AitchisonDistance.Matrix(zeros.Table, cancellationToken);
             return TableResults.Ok(new DistancesResponse(table.Ids, new RowMajor(matrix, table.RowCount), ImputedCellItem.From(zeros.Imputed)));
         }
         catch (CompositionException e)

@@ -21,6 +21,7 @@ public static class LogRatioAnalysis
     /// <param name="weights">Part weights: <see cref="PartWeightSpec.Equal"/> (1/J) or <see cref="PartWeightSpec.Mean"/>
     /// (mean closed proportions, Greenacre &amp; Lewi 2009); given weights also work.</param>
     /// <param name="dimensions">How many dimensions of coordinates to return, 1 ≤ d ≤ min(J − 1, n − 1).</param>
+    /// <param name="cancellationToken">Looked at every 1,024 rows while Z is built and between the QR and SVD steps; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>
     /// With Yc the weighted clr (clr_j = ln x_j − Σ_k w_k ln x_k) centred with row weights r = 1/n, and
     /// Z = D_r^(1/2) Yc D_w^(1/2) = U S V': all min(J − 1, n − 1) singular values; inertia fractions s_k² / TV, where
@@ -36,7 +37,7 @@ public static class LogRatioAnalysis
     /// <exception cref="CompositionException">A zero cell (<c>/rows/i/j</c>), weights that cannot be resolved
     /// (<c>/weights</c>), <c>dimensions</c> out of range (<see cref="ProblemTypes.InvalidOption"/> at <c>/dimensions</c>),
     /// or no log-ratio variance (<see cref="ProblemTypes.NoVariation"/> at <c>/rows</c>).</exception>
-    public static LogRatioAnalysisResult Run(CompositionTable table, PartWeightSpec weights, int dimensions = 2)
+    public static LogRatioAnalysisResult Run(CompositionTable table, PartWeightSpec weights, int dimensions = 2, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         ArgumentNullException.ThrowIfNull(weights);
@@ -52,7 +53,7 @@ public static class LogRatioAnalysis
                 string.Create(CultureInfo.InvariantCulture, $"dimensions must be between 1 and min(J − 1, n − 1) = {Math.Max(available, 0)}."));
         }
 
-        var z = WeightedCentredClr(table, w, out var logScale);
+        var z = WeightedCentredClr(table, w, out var logScale, cancellationToken);
         var tv = 0.0;
         foreach (var v in z.AsColumnMajorArray())
         {
@@ -66,10 +67,14 @@ public static class LogRatioAnalysis
 
         Matrix<double> u, vt;
         Vector<double> s;
+        // The factorizations run inside MathNet without a token; the token is looked at between them.
+        cancellationToken.ThrowIfCancellationRequested();
         if (n >= j)
         {
             var qr = z.QR(QRMethod.Thin);
+            cancellationToken.ThrowIfCancellationRequested();
             var svd = qr.R.Svd(computeVectors: true);
+            cancellationToken.ThrowIfCancellationRequested();
             u = qr.Q * svd.U;
             s = svd.S;
             vt = svd.VT;
@@ -136,13 +141,14 @@ public static class LogRatioAnalysis
 
     // Z_ij = √(1/n) (clr_ij − mean_i clr_ij) √w_j with clr_ij = ln x_ij − Σ_k w_k ln x_ik. logScale = Σ_j w_j var(ln x_j) + 1
     // bounds the size of the numbers whose cancellation TV is, for the no-variance test.
-    private static Matrix<double> WeightedCentredClr(CompositionTable table, double[] w, out double logScale)
+    private static Matrix<double> WeightedCentredClr(CompositionTable table, double[] w, out double logScale, CancellationToken cancellationToken)
     {
         int n = table.RowCount, j = table.PartCount;
         var z = Matrix<double>.Build.Dense(n, j);
         var data = z.AsColumnMajorArray();
         for (var i = 0; i < n; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var row = table.Row(i);
             var mean = 0.0;
             for (var p = 0; p < j; p++)

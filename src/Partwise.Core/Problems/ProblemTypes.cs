@@ -95,4 +95,10 @@ public static class ProblemTypes
 
     /// <summary>The durable store cannot be reached or cannot take the operation now (HTTP 503); retrying later may succeed.</summary>
     public const string StorageUnavailable = "/problems/storage-unavailable";
+
+    /// <summary>A caller over its rate limit for this kind of route (HTTP 429, with <c>Retry-After</c> in seconds).</summary>
+    public const string RateLimited = "/problems/rate-limited";
+
+    /// <summary>A computation stopped at the request timeout (HTTP 503); a smaller request, or a later one, may succeed.</summary>
+    public const string Timeout = "/problems/timeout";
 }

@@ -54,6 +54,7 @@ public static class BaselineFit
     /// n rows in the order of <paramref name="coordinates"/>). Needed when there are named ratios; when given, rules
     /// also count towards <see cref="FittedBaseline.ReferenceFlagged"/>.
     /// </param>
+    /// <param name="cancellationToken">Looked at once per FAST-MCD trial and C-step of the robust estimate; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <remarks>
     /// Named ratios: with the robust scatter, location = median and scale = 1.4826 × median absolute deviation of
     /// ln(ratio) over all reference samples (each ratio on its own, independent of the rows the MCD set aside); with
@@ -71,7 +72,8 @@ public static class BaselineFit
         IReadOnlyList<double> coordinateMap,
         double[] coordinates,
         BaselineOptions? options = null,
-        CompositionTable? reference = null)
+        CompositionTable? reference = null,
+        CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         ArgumentNullException.ThrowIfNull(coordinateMap);
@@ -85,7 +87,7 @@ public static class BaselineFit
 
         var p = coordinateMap.Count / parts.Count;
         var estimate = options.Scatter == ScatterMethod.Robust
-            ? RobustScatter.Fit(coordinates, p, options.Seed)
+            ? RobustScatter.Fit(coordinates, p, options.Seed, cancellationToken: cancellationToken)
             : ClassicalScatter.Fit(coordinates, p);
         var n = estimate.Count;
         if (reference is not null)

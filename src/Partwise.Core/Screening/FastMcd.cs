@@ -45,9 +45,12 @@ internal sealed class FastMcd
     private readonly double[] _keys;
     private readonly int[] _items;
     private readonly int[] _pool;
+    private readonly CancellationToken _cancellationToken;
 
-    internal FastMcd(double[] coordinates, int dimension, int supportSize, int seed, string pointer)
+    // The token is looked at once per trial and once per C-step (each O(n p²)), so a cancelled search stops within one of them.
+    internal FastMcd(double[] coordinates, int dimension, int supportSize, int seed, string pointer, CancellationToken cancellationToken = default)
     {
+        _cancellationToken = cancellationToken;
         _x = coordinates;
         _p = dimension;
         _n = coordinates.Length / dimension;
@@ -112,6 +115,7 @@ internal sealed class FastMcd
         var support = new int[hMerged];
         foreach (var candidate in pooled)
         {
+            _cancellationToken.ThrowIfCancellationRequested();
             candidate.Mean.CopyTo(_mean, 0);
             candidate.Factor.CopyTo(_factor, 0);
             Nearest(mergedRows, merged, hMerged, support);
@@ -129,6 +133,7 @@ internal sealed class FastMcd
         Array.Copy(members, _pool, m);
         for (var t = 0; t < trials; t++)
         {
+            _cancellationToken.ThrowIfCancellationRequested();
             StartFromRandomSubset(m, members, support);
             Offer(best, RefineTwice(members, m, support));
         }
@@ -198,6 +203,7 @@ internal sealed class FastMcd
 
             for (var step = 0; step < MaxCSteps; step++)
             {
+                _cancellationToken.ThrowIfCancellationRequested();
                 Nearest(all, _n, _h, next);
                 if (!Estimate(next, out var nextLogDet))
                 {

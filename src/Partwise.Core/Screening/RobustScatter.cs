@@ -36,6 +36,7 @@ public static class RobustScatter
     /// <param name="dimension">p ≥ 1.</param>
     /// <param name="seed">Seed of the random subsets; any integer.</param>
     /// <param name="pointer">JSON pointer of the reference rows in the request, for problems.</param>
+    /// <param name="cancellationToken">Looked at once per FAST-MCD trial and C-step; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>T₁ and c₁S₁, the rows with weight 1, and the raw estimate in <see cref="ScatterEstimate.Robust"/>.</returns>
     /// <exception cref="ArgumentException">A shape that is not n × p or a non-finite value.</exception>
     /// <exception cref="Problems.CompositionException">
@@ -43,7 +44,7 @@ public static class RobustScatter
     /// when the coordinates' covariance is singular, or h or more rows lie on a hyperplane (exact fit), so that
     /// the raw or reweighted scatter is singular.
     /// </exception>
-    public static ScatterEstimate Fit(double[] coordinates, int dimension, int seed = DefaultSeed, string pointer = "/rows")
+    public static ScatterEstimate Fit(double[] coordinates, int dimension, int seed = DefaultSeed, string pointer = "/rows", CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(coordinates);
 
@@ -53,7 +54,7 @@ public static class RobustScatter
         var p = dimension;
         var h = (n + p + 1) / 2;
 
-        var support = p == 1 ? UnivariateSupport(coordinates, h) : new FastMcd(coordinates, p, h, seed, pointer).Search();
+        var support = p == 1 ? UnivariateSupport(coordinates, h) : new FastMcd(coordinates, p, h, seed, pointer, cancellationToken).Search();
         Array.Sort(support);
 
         var work = new double[2 * p];

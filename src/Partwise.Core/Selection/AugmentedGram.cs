@@ -22,7 +22,7 @@ internal static class AugmentedGram
     /// covariance does not cancel, are stored column by column and every pair of columns is a contiguous dot product.
     /// Memory: the (J + s)² result and one block, whatever n is.
     /// </remarks>
-    public static double[] Compute(CompositionTable table, IReadOnlyList<int[]> sums)
+    public static double[] Compute(CompositionTable table, IReadOnlyList<int[]> sums, CancellationToken cancellationToken = default)
     {
         int n = table.RowCount, j = table.PartCount, m = j + sums.Count;
         var block = new double[m * BlockRows];
@@ -37,6 +37,8 @@ internal static class AugmentedGram
 
         for (var start = 0; start < n; start += BlockRows)
         {
+            // A block is 256 M² / 2 products: look once per block.
+            cancellationToken.ThrowIfCancellationRequested();
             var len = Math.Min(BlockRows, n - start);
             FillLogs(table, start, len, sums, block);
             for (var c = 0; c < m; c++)

@@ -54,6 +54,7 @@ public static class RatioReconstruction
     /// <param name="ratios">Exactly J − 1 ratios over the parts, forming a complete set (<see cref="IsInvertible"/>).</param>
     /// <param name="rows">One row of J − 1 log values per composition, in the order of <paramref name="ratios"/>.</param>
     /// <param name="total">The closure total κ &gt; 0 (default 1).</param>
+    /// <param name="cancellationToken">Looked at every row (a J × J solve each); once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>The compositions, each summing to <paramref name="total"/>.</returns>
     /// <remarks>
     /// <para>Pairwise and amalgamation ratios: each ratio with value y gives Σ_A x − e^y Σ_B x = 0 (scaled so that its largest
@@ -72,7 +73,7 @@ public static class RatioReconstruction
     /// <see cref="ProblemTypes.NonFiniteValue"/> at <c>/rows/i/k</c>; <see cref="ProblemTypes.InvalidInput"/> for fewer than
     /// two parts (<c>/parts</c>), no rows or a row of the wrong length (<c>/rows/i</c>);
     /// <see cref="ProblemTypes.InvalidOption"/> for a total that is not positive (<c>/total</c>).</exception>
-    public static CompositionTable Solve(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total = 1)
+    public static CompositionTable Solve(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total = 1, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         ArgumentNullException.ThrowIfNull(ratios);
@@ -116,17 +117,17 @@ public static class RatioReconstruction
         var values = new double[rows.Count * j];
         if (firstAmalgamation < 0)
         {
-            SolveInLogs(parts, ratios, rows, total, values);
+            SolveInLogs(parts, ratios, rows, total, values, cancellationToken);
         }
         else
         {
-            SolveInParts(parts, ratios, rows, total, values);
+            SolveInParts(parts, ratios, rows, total, values, cancellationToken);
         }
 
         return CompositionTable.FromValues(parts, values);
     }
 
-    private static void SolveInLogs(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total, double[] values)
+    private static void SolveInLogs(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total, double[] values, CancellationToken cancellationToken)
     {
         var j = parts.Count;
         var a = Matrix<double>.Build.Dense(j, j);
@@ -158,6 +159,7 @@ public static class RatioReconstruction
         var l = Vector<double>.Build.Dense(j);
         for (var r = 0; r < rows.Count; r++)
         {
+            cancellationToken.ThrowIfCancellationRequested();
             for (var i = 0; i < j - 1; i++)
             {
                 y[i] = rows[r][i];
@@ -178,7 +180,7 @@ public static class RatioReconstruction
         }
     }
 
-    private static void SolveInParts(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total, double[] values)
+    private static void SolveInParts(IReadOnlyList<string> parts, IReadOnlyList<LogRatio> ratios, IReadOnlyList<double[]> rows, double total, double[] values, CancellationToken cancellationToken)
     {
         var j = parts.Count;
         var a = Matrix<double>.Build.Dense(j, j);
@@ -187,6 +189,7 @@ public static class RatioReconstruction
         rhs[j - 1] = total;
         for (var r = 0; r < rows.Count; r++)
         {
+            cancellationToken.ThrowIfCancellationRequested();
             a.Clear();
             for (var i = 0; i < ratios.Count; i++)
             {

@@ -38,19 +38,20 @@ public static class RatioSelection
     /// <param name="table">n ≥ 2 rows, J ≥ 2 parts, all values &gt; 0.</param>
     /// <param name="weights">Part weights w (length J, positive, Σ w = 1), e.g. from <see cref="Variance.PartWeights.Resolve"/>.</param>
     /// <param name="options">Amalgamations, forced and excluded parts, and the stopping rule.</param>
+    /// <param name="cancellationToken">Looked at once per block of 256 rows, per row of the initial statistics and per step; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>The path, the total variance (divisor n), the chosen set's graph and whether it is invertible.</returns>
     /// <exception cref="CompositionException">A zero cell (<c>/rows/i/j</c>), a bad amalgamation (<c>/amalgamations/name</c>),
     /// exclusion (<c>/exclude/i</c>, or <c>/exclude</c> when fewer than two parts remain), forced ratio (<c>/force/i</c>;
     /// <see cref="ProblemTypes.DependentRatio"/> when it depends on the ratios before it), stopping option
     /// (<c>/stop/maxRatios</c>, <c>/stop/explained</c>), or data without log-ratio variance (<c>/rows</c>).</exception>
     /// <exception cref="ArgumentException">Weights of the wrong length, not positive, or not summing to 1.</exception>
-    public static RatioSelectionResult Run(CompositionTable table, double[] weights, RatioSelectionOptions options)
+    public static RatioSelectionResult Run(CompositionTable table, double[] weights, RatioSelectionOptions options, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var inputs = SelectionInputs.Resolve(table.Parts, weights, options, allowAddedSums: true);
         PositiveTable.Require(table);
-        var k0 = AugmentedGram.Compute(table, inputs.Columns.Sums);
-        return StepwiseSelection.Run(inputs, k0, weights, "/rows");
+        var k0 = AugmentedGram.Compute(table, inputs.Columns.Sums, cancellationToken);
+        return StepwiseSelection.Run(inputs, k0, weights, "/rows", cancellationToken);
     }
 
     /// <summary>
@@ -62,19 +63,20 @@ public static class RatioSelection
     /// <param name="weights">Part weights for the first J names (positive, Σ w = 1): <c>equal</c> or given ones, since mean
     /// proportions need the table.</param>
     /// <param name="options">As for a table; a forced amalgamation ratio can only use parts and named amalgamations.</param>
+    /// <param name="cancellationToken">Looked at per row of the initial statistics and per step; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <exception cref="CompositionException"><see cref="ProblemTypes.InvalidMoments"/> for names that do not match
     /// (<c>/moments/names/i</c>), a covariance that is not square, symmetric within 1e-9 of its largest diagonal value, or
     /// positive semi-definite (eigenvalues ≥ −1e-10 trace) (<c>/moments/covariance</c>), or a count below 2
     /// (<c>/moments/count</c>); <see cref="ProblemTypes.NonFiniteValue"/> at <c>/moments/covariance/i/j</c>; and the
     /// option problems of the table overload.</exception>
-    public static RatioSelectionResult Run(SelectionMoments moments, double[] weights, RatioSelectionOptions options)
+    public static RatioSelectionResult Run(SelectionMoments moments, double[] weights, RatioSelectionOptions options, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(moments);
         ArgumentNullException.ThrowIfNull(options);
         var parts = MomentParts(moments, options.Amalgamations ?? []);
         var inputs = SelectionInputs.Resolve(parts, weights, options, allowAddedSums: false);
         var k0 = MomentGram(moments, parts.Length + (options.Amalgamations?.Count ?? 0));
-        return StepwiseSelection.Run(inputs, k0, weights, "/moments/covariance");
+        return StepwiseSelection.Run(inputs, k0, weights, "/moments/covariance", cancellationToken);
     }
 
     private static string[] MomentParts(SelectionMoments moments, IReadOnlyList<NamedAmalgamation> amalgamations)

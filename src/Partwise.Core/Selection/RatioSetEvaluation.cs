@@ -17,6 +17,7 @@ public static class RatioSetEvaluation
     /// <param name="table">n rows, J ≥ 2 parts, all values &gt; 0 (apply the zero policy first).</param>
     /// <param name="ratios">k ≥ 1 ratios of any kinds over the table's parts.</param>
     /// <param name="weights">Part weights w (length J, positive, Σ w = 1).</param>
+    /// <param name="cancellationToken">Looked at once per block of 256 rows, per row of the initial statistics and per ratio; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>
     /// explained = 1 − Σ_j w_j RSS_j / (n TV), regressing every weighted clr column on all k ratio columns;
     /// Procrustes r = Σ σ_i(E'K0B) / √(TV · trace(B'K0B)) (0 when no ratio varies); rank = the dimension the ratio columns
@@ -35,7 +36,7 @@ public static class RatioSetEvaluation
     /// log-ratio variance (<see cref="ProblemTypes.NoVariation"/> at <c>/rows</c>).</exception>
     /// <exception cref="ArgumentException">Weights of the wrong length, not positive, or not summing to 1; ratios with
     /// indices outside the table.</exception>
-    public static RatioSetEvaluationResult Evaluate(CompositionTable table, IReadOnlyList<LogRatio> ratios, double[] weights)
+    public static RatioSetEvaluationResult Evaluate(CompositionTable table, IReadOnlyList<LogRatio> ratios, double[] weights, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         ArgumentNullException.ThrowIfNull(ratios);
@@ -64,8 +65,8 @@ public static class RatioSetEvaluation
         }
 
         var m = columns.Count;
-        var k0 = AugmentedGram.Compute(table, columns.Sums);
-        var gram = new ResidualGram(k0, m, weights);
+        var k0 = AugmentedGram.Compute(table, columns.Sums, cancellationToken);
+        var gram = new ResidualGram(k0, m, weights, cancellationToken);
         var tv = gram.TotalVariance;
         if (!(tv > 1e-12 * gram.Trace0))
         {
@@ -78,6 +79,7 @@ public static class RatioSetEvaluation
         var c = new double[k, k];
         for (var a = 0; a < k; a++)
         {
+            cancellationToken.ThrowIfCancellationRequested();
             for (var b = a; b < k; b++)
             {
                 s[a, b] = s[b, a] = Bilinear(k0, m, coefficients[a], coefficients[b]);
@@ -125,6 +127,7 @@ public static class RatioSetEvaluation
             var kb = new double[m];
             for (var r = 0; r < k; r++)
             {
+                cancellationToken.ThrowIfCancellationRequested();
                 Array.Clear(kb);
                 foreach (var (col, val) in coefficients[r])
                 {

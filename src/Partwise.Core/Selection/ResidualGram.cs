@@ -17,7 +17,8 @@ internal sealed class ResidualGram
     /// <param name="k0">The M × M row-major K0 (copied).</param>
     /// <param name="columns">M.</param>
     /// <param name="w">The J part weights (Σ w = 1).</param>
-    public ResidualGram(double[] k0, int columns, double[] w)
+    /// <param name="cancellationToken">Looked at once per row of N (M J products each); once cancelled the constructor throws <see cref="OperationCanceledException"/>.</param>
+    public ResidualGram(double[] k0, int columns, double[] w, CancellationToken cancellationToken = default)
     {
         M = columns;
         J = w.Length;
@@ -70,6 +71,7 @@ internal sealed class ResidualGram
 
         for (var r = 0; r < M; r++)
         {
+            cancellationToken.ThrowIfCancellationRequested();
             for (var c = r; c < M; c++)
             {
                 var acc = 0.0;

@@ -1,7 +1,7 @@
 namespace Partwise.Core.Selection;
 
 /// <summary>
-/// The second moments a distributed engine computes in place of a table, for <see cref="RatioSelection.Run(SelectionMoments, double[], RatioSelectionOptions)"/>.
+/// The second moments a distributed engine computes in place of a table, for <see cref="RatioSelection.Run(SelectionMoments, double[], RatioSelectionOptions, CancellationToken)"/>.
 /// </summary>
 /// <param name="Names">The J part names, then the names of the named amalgamations in the order of the options.</param>
 /// <param name="Covariance">The (J + m) × (J + m) sample covariance, divisor n − 1, of ln x_1 … ln x_J and then

@@ -15,11 +15,11 @@ internal static class StepwiseSelection
     /// <summary>A step "reaches" stop.explained when its fraction is at least the target less this rounding allowance.</summary>
     internal const double ReachTolerance = 1e-12;
 
-    public static RatioSelectionResult Run(SelectionInputs inputs, double[] k0, double[] weights, string dataPointer)
+    public static RatioSelectionResult Run(SelectionInputs inputs, double[] k0, double[] weights, string dataPointer, CancellationToken cancellationToken = default)
     {
         var columns = inputs.Columns;
         var m = columns.Count;
-        var gram = new ResidualGram(k0, m, weights);
+        var gram = new ResidualGram(k0, m, weights, cancellationToken);
         var tv = gram.TotalVariance;
         if (!(tv > 1e-12 * gram.Trace0) || !double.IsFinite(tv))
         {
@@ -33,6 +33,7 @@ internal static class StepwiseSelection
 
         for (var i = 0; i < inputs.Forced.Length; i++)
         {
+            cancellationToken.ThrowIfCancellationRequested();
             var ratio = inputs.Forced[i];
             var b = columns.Coefficients(ratio)!;
             var norm = b.Sum(t => t.Value * t.Value);
@@ -57,6 +58,8 @@ internal static class StepwiseSelection
         var nn = gram.N;
         while (steps.Count < inputs.MaxRatios && explained < inputs.Target - ReachTolerance)
         {
+            // A step scans every candidate and updates K and N: O(M²), looked at once per step.
+            cancellationToken.ThrowIfCancellationRequested();
             var tolerance = gram.Tolerance(2);
             var best = double.NegativeInfinity;
             for (var c = 0; c < candP.Length; c++)

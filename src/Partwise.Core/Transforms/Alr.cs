@@ -11,8 +11,9 @@ public static class Alr
     /// <summary>The alr of every row with denominator part <paramref name="denominator"/>.</summary>
     /// <param name="table">Strictly positive (apply a zero policy first).</param>
     /// <param name="denominator">0-based index of D.</param>
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>n × (J − 1) coordinates labelled <c>part/D</c>, in table order without D.</returns>
-    public static LogRatioCoordinates Forward(CompositionTable table, int denominator)
+    public static LogRatioCoordinates Forward(CompositionTable table, int denominator, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var j = table.PartCount;
@@ -23,6 +24,7 @@ public static class Alr
         var values = new double[table.RowCount * width];
         for (var i = 0; i < table.RowCount; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var row = source.AsSpan(i * j, j);
             var logD = Math.Log(row[denominator]);
             var output = values.AsSpan(i * width, width);
@@ -46,7 +48,8 @@ public static class Alr
     /// <param name="values">n × (J − 1) finite coordinates, row-major.</param>
     /// <param name="total">κ &gt; 0 for the closure.</param>
     /// <param name="ids">Optional ids for the result.</param>
-    public static CompositionTable Inverse(IReadOnlyList<string> parts, int denominator, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null)
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static CompositionTable Inverse(IReadOnlyList<string> parts, int denominator, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         var j = parts.Count;
@@ -60,6 +63,7 @@ public static class Alr
         var result = new double[n * j];
         for (var i = 0; i < n; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var y = values.AsSpan(i * width, width);
             var c = 0;
             for (var k = 0; k < j; k++)

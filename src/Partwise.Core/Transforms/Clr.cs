@@ -13,8 +13,9 @@ public static class Clr
     /// </summary>
     /// <param name="table">Strictly positive; a zero gives −∞, so callers replace zeros before.</param>
     /// <param name="weights">Part weights summing to 1 (length J), or null for 1/J.</param>
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>n × J coordinates labelled <c>clr(part)</c>.</returns>
-    public static LogRatioCoordinates Forward(CompositionTable table, double[]? weights = null)
+    public static LogRatioCoordinates Forward(CompositionTable table, double[]? weights = null, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var j = table.PartCount;
@@ -27,6 +28,7 @@ public static class Clr
         var values = new double[source.Length];
         for (var i = 0; i < table.RowCount; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             RowForward(source.AsSpan(i * j, j), values.AsSpan(i * j, j), weights);
         }
 
@@ -63,7 +65,8 @@ public static class Clr
     /// <param name="values">n × J coordinates, row-major, finite (see <see cref="CoordinateInput.Require"/>).</param>
     /// <param name="total">κ &gt; 0 for the closure.</param>
     /// <param name="ids">Optional ids for the result.</param>
-    public static CompositionTable Inverse(IReadOnlyList<string> parts, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null)
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static CompositionTable Inverse(IReadOnlyList<string> parts, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(parts);
         Closure.RequireTotal(total, "/total");
@@ -72,6 +75,7 @@ public static class Clr
         var j = parts.Count;
         for (var i = 0; i < values.Length / j; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             ExpClose(values.AsSpan(i * j, j), result.AsSpan(i * j, j), total);
         }
 

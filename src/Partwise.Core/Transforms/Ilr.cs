@@ -11,8 +11,9 @@ public static class Ilr
     /// <summary>The ilr of every row of a strictly positive table.</summary>
     /// <param name="table">Strictly positive (apply a zero policy first); parts in the basis's order.</param>
     /// <param name="basis">A basis for the table's J parts.</param>
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <returns>n × (J − 1) coordinates labelled by the basis's balances.</returns>
-    public static LogRatioCoordinates Forward(CompositionTable table, IlrBasis basis)
+    public static LogRatioCoordinates Forward(CompositionTable table, IlrBasis basis, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         ArgumentNullException.ThrowIfNull(basis);
@@ -29,6 +30,7 @@ public static class Ilr
         Span<double> logs = j <= 256 ? stackalloc double[j] : new double[j];
         for (var i = 0; i < table.RowCount; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var row = source.AsSpan(i * j, j);
             for (var k = 0; k < j; k++)
             {
@@ -56,7 +58,8 @@ public static class Ilr
     /// <param name="values">n × (J − 1) finite coordinates, row-major.</param>
     /// <param name="total">κ &gt; 0 for the closure.</param>
     /// <param name="ids">Optional ids for the result.</param>
-    public static CompositionTable Inverse(IlrBasis basis, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null)
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static CompositionTable Inverse(IlrBasis basis, double[] values, double total = 1.0, IReadOnlyList<string>? ids = null, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(basis);
         Closure.RequireTotal(total, "/total");
@@ -69,6 +72,7 @@ public static class Ilr
         var result = new double[n * j];
         for (var i = 0; i < n; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var z = values.AsSpan(i * d, d);
             for (var k = 0; k < j; k++)
             {

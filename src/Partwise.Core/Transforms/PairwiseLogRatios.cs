@@ -9,7 +9,9 @@ namespace Partwise.Core.Transforms;
 public static class PairwiseLogRatios
 {
     /// <summary>The pairwise log-ratios of every row of a strictly positive table, labelled <c>a/b</c>.</summary>
-    public static LogRatioCoordinates Forward(CompositionTable table)
+    /// <param name="table">Strictly positive (apply a zero policy first).</param>
+    /// <param name="cancellationToken">Looked at every row; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static LogRatioCoordinates Forward(CompositionTable table, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var j = table.PartCount;
@@ -29,6 +31,8 @@ public static class PairwiseLogRatios
         Span<double> logs = j <= 256 ? stackalloc double[j] : new double[j];
         for (var i = 0; i < table.RowCount; i++)
         {
+            // A row holds J(J − 1)/2 values, up to half a million: look at every row.
+            cancellationToken.ThrowIfCancellationRequested();
             var row = source.AsSpan(i * j, j);
             for (var k = 0; k < j; k++)
             {

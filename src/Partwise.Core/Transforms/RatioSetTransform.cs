@@ -12,7 +12,8 @@ public static class RatioSetTransform
     /// <summary>One column per ratio, labelled with the ratio's label.</summary>
     /// <param name="table">Strictly positive on every part the ratios use (apply a zero policy first).</param>
     /// <param name="ratios">At least one ratio over the table's parts.</param>
-    public static LogRatioCoordinates Forward(CompositionTable table, IReadOnlyList<LogRatio> ratios)
+    /// <param name="cancellationToken">Looked at every 1,024 rows; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static LogRatioCoordinates Forward(CompositionTable table, IReadOnlyList<LogRatio> ratios, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         ArgumentNullException.ThrowIfNull(ratios);
@@ -20,6 +21,7 @@ public static class RatioSetTransform
         var values = new double[table.RowCount * width];
         for (var i = 0; i < table.RowCount; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             var row = table.Row(i);
             for (var c = 0; c < width; c++)
             {

@@ -12,15 +12,18 @@ public static class AitchisonDistance
 {
     /// <summary>The n × n matrix of distances between the rows of a strictly positive table, row-major.</summary>
     /// <param name="table">Strictly positive (apply a zero policy first). Memory is 8 n² bytes: callers cap n.</param>
-    public static double[] Matrix(CompositionTable table)
+    /// <param name="cancellationToken">Looked at every row; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
+    public static double[] Matrix(CompositionTable table, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var n = table.RowCount;
         var j = table.PartCount;
-        var clr = Clr.Forward(table).Values;
+        var clr = Clr.Forward(table, null, cancellationToken).Values;
         var result = new double[checked(n * n)];
         for (var a = 0; a < n; a++)
         {
+            // Each row is up to n distances of J terms: look at every row.
+            cancellationToken.ThrowIfCancellationRequested();
             var ra = clr.AsSpan(a * j, j);
             for (var b = a + 1; b < n; b++)
             {

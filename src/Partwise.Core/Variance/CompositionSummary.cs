@@ -26,8 +26,9 @@ public sealed record CompositionSummary(
     /// </summary>
     /// <param name="table">Strictly positive (apply a zero policy first), n ≥ 2.</param>
     /// <param name="weights">Part weights (length J, sum 1), or null for 1/J.</param>
+    /// <param name="cancellationToken">Looked at every 1,024 rows of each pass; once cancelled the call throws <see cref="OperationCanceledException"/>.</param>
     /// <exception cref="CompositionException">Fewer than two rows (no variance exists).</exception>
-    public static CompositionSummary Compute(CompositionTable table, double[]? weights = null)
+    public static CompositionSummary Compute(CompositionTable table, double[]? weights = null, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(table);
         var n = table.RowCount;
@@ -38,13 +39,14 @@ public sealed record CompositionSummary(
         }
 
         var w = weights ?? Enumerable.Repeat(1.0 / j, j).ToArray();
-        var clr = Clr.Forward(table, w).Values;
+        var clr = Clr.Forward(table, w, cancellationToken).Values;
 
         // Means of ln x give the geometric-mean centre; the clr means are the same up to a common shift.
         var meanLog = new double[j];
         var source = table.Values;
         for (var i = 0; i < n; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             for (var k = 0; k < j; k++)
             {
                 meanLog[k] += Math.Log(source[(i * j) + k]);
@@ -77,6 +79,7 @@ public sealed record CompositionSummary(
         var centred = new double[j];
         for (var i = 0; i < n; i++)
         {
+            Cancellation.AtRow(i, cancellationToken);
             for (var k = 0; k < j; k++)
             {
                 centred[k] = clr[(i * j) + k] - meanClr[k];

@@ -5,6 +5,7 @@ using Microsoft.AspNetCore.Mvc.Testing;
 using Microsoft.AspNetCore.TestHost;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
+using Microsoft.Extensions.Hosting;
 using Serilog.Core;
 using Serilog.Events;
 
@@ -28,7 +29,8 @@ public class PartwiseFactory : WebApplicationFactory<Program>
     {
     }
 
-    private PartwiseFactory(IReadOnlyDictionary<string, string?> settings)
+    /// <summary>A host with the given configuration overrides (for subclasses with their own server or services).</summary>
+    protected PartwiseFactory(IReadOnlyDictionary<string, string?> settings)
     {
         DataDirectory = Path.Combine(Path.GetTempPath(), "partwise-api-tests", Guid.NewGuid().ToString("N"));
         _settings = new Dictionary<string, string?>
@@ -41,6 +43,9 @@ public class PartwiseFactory : WebApplicationFactory<Program>
             _settings[key] = value;
         }
     }
+
+    /// <summary>The started host, for tests that stop it themselves.</summary>
+    public IHost? StartedHost { get; private set; }
 
     /// <summary>This host's SQLite data directory.</summary>
     public string DataDirectory { get; }
@@ -73,6 +78,14 @@ public class PartwiseFactory : WebApplicationFactory<Program>
             services.AddSingleton<ILogEventSink>(Logs);
             services.AddSingleton<IStartupFilter>(new RemoteAddressStartupFilter(() => RemoteAddress));
         });
+    }
+
+    /// <inheritdoc />
+    protected override IHost CreateHost(IHostBuilder builder)
+    {
+        var host = base.CreateHost(builder);
+        StartedHost = host;
+        return host;
     }
 
     /// <inheritdoc />

@@ -6,7 +6,8 @@ namespace Partwise.Api.Infrastructure.OpenApi;
 
 /// <summary>
 /// Completes table operations in the OpenAPI document: the JSON request example, the <c>text/csv</c> request body
-/// with its query options, the <c>text/csv</c> 200 response, and the <c>X-Request-Id</c> header on every response.
+/// with its query options, the <c>text/csv</c> 200 response, the <c>X-Request-Id</c> header on every response and
+/// <c>Retry-After</c> on a 429.
 /// </summary>
 public sealed class CsvOperationFilter : IOperationFilter
 {
@@ -74,6 +75,15 @@ public sealed class CsvOperationFilter : IOperationFilter
                 Description = "The request's id: the caller's own when it sent a sane one (1 to 128 printable ASCII characters), else a new one.",
                 Schema = new OpenApiSchema { Type = JsonSchemaType.String },
             };
+            if (status == "429")
+            {
+                r.Headers["Retry-After"] = new OpenApiHeader
+                {
+                    Description = "Whole seconds until this caller's rate limit lets a request through again.",
+                    Schema = new OpenApiSchema { Type = JsonSchemaType.Integer },
+                };
+            }
+
             if (status == "200" && metadata.OfType<CsvResponseMetadata>().Any())
             {
                 r.Content ??= new Dictionary<string, IOpenApiMediaType>();
