@@ -140,6 +140,13 @@ public static class SampleScreening
         for (var i = 0; i < m; i++)
         {
             var r = results[i];
+            if (Unrepresentable(r) is { } label)
+            {
+                // Finite values can still give a ratio past the double range (44.9 / 1e-320); JSON has no number for it.
+                Add(ProblemTypes.NonFiniteValue, samples[i].Pointer + "/values", $"The ratio {label} of these values is outside the range of a double (about 1e-308 to 1.8e308); the values cannot be screened as given.");
+                continue;
+            }
+
             items[i] = new ScreeningResultItem
             {
                 SampleId = samples[i].Item.Id!,
@@ -153,6 +160,11 @@ public static class SampleScreening
             };
         }
 
+        if (type is not null)
+        {
+            throw new CompositionException(type, string.Create(CultureInfo.InvariantCulture, $"{errors.Count} sample(s) cannot be screened."), errors);
+        }
+
         return items;
 
         void Add(string problemType, string pointer, string detail)
@@ -163,6 +175,33 @@ public static class SampleScreening
                 errors.Add(new ProblemError(pointer, detail));
             }
         }
+    }
+
+    /// <summary>The label of the first ratio of the result that is not a finite number, or null when all are.</summary>
+    private static string? Unrepresentable(ScreeningResult r)
+    {
+        if (!double.IsFinite(r.SquaredDistance))
+        {
+            return "distance";
+        }
+
+        foreach (var x in r.Reasons)
+        {
+            if (!double.IsFinite(x.Value) || !double.IsFinite(x.Z) || !double.IsFinite(x.ExpectedLow) || !double.IsFinite(x.ExpectedHigh))
+            {
+                return x.Label;
+            }
+        }
+
+        foreach (var x in r.RuleViolations)
+        {
+            if (!double.IsFinite(x.Value))
+            {
+                return x.Label;
+            }
+        }
+
+        return null;
     }
 
     private static string RowPointer(string pointer, IReadOnlyList<PlacedSample> samples, IReadOnlyList<string> parts)

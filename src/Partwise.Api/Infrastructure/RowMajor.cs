@@ -25,14 +25,20 @@ public sealed class RowMajorConverter : JsonConverter<RowMajor>
     /// <inheritdoc />
     public override RowMajor Read(ref Utf8JsonReader reader, Type typeToConvert, JsonSerializerOptions options)
     {
-        var rows = JsonSerializer.Deserialize<double[][]>(ref reader, options) ?? [];
-        var k = rows.Length == 0 ? 0 : rows[0].Length;
-        if (rows.Any(r => r.Length != k))
+        var rows = JsonSerializer.Deserialize<double[]?[]>(ref reader, options) ?? [];
+        // A null row ([[1, 2], null]) is bad input, not a null dereference further on.
+        if (rows.Any(r => r is null))
+        {
+            throw new JsonException("Every row of a matrix is an array of numbers, not null.");
+        }
+
+        var k = rows.Length == 0 ? 0 : rows[0]!.Length;
+        if (rows.Any(r => r!.Length != k))
         {
             throw new JsonException("Every row of a matrix has the same length.");
         }
 
-        return new RowMajor(rows.SelectMany(r => r).ToArray(), k);
+        return new RowMajor(rows.SelectMany(r => r!).ToArray(), k);
     }
 
     /// <inheritdoc />

@@ -145,7 +145,7 @@ public sealed class LogRatio
         switch (Kind)
         {
             case RatioKind.Pairwise:
-                return Math.Log(row[Numerator[0]] / row[Denominator[0]]);
+                return LogOfQuotient(row[Numerator[0]], row[Denominator[0]]);
             case RatioKind.Amalgamation:
                 {
                     double a = 0, b = 0;
@@ -159,7 +159,7 @@ public sealed class LogRatio
                         b += row[j];
                     }
 
-                    return Math.Log(a / b);
+                    return LogOfQuotient(a, b);
                 }
 
             default:
@@ -179,6 +179,17 @@ public sealed class LogRatio
                     return Math.Sqrt(r * s / (r + s)) * ((la / r) - (lb / s));
                 }
         }
+    }
+
+    /// <summary>
+    /// ln(a / b) for a, b &gt; 0. The quotient of two finite doubles can overflow to infinity or underflow to zero
+    /// (44.9 / 1e-320 is past 1.8e308) although ln a − ln b is an ordinary number (about 741), so the difference of
+    /// logs is taken whenever the quotient is not a normal double; otherwise the one log of the quotient, as before.
+    /// </summary>
+    private static double LogOfQuotient(double a, double b)
+    {
+        var q = a / b;
+        return double.IsNormal(q) ? Math.Log(q) : Math.Log(a) - Math.Log(b);
     }
 
     /// <summary>

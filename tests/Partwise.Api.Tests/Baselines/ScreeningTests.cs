@@ -243,6 +243,8 @@ public class ScreeningTests(PartwiseFactory factory) : IClassFixture<PartwiseFac
     [InlineData("scatter", "\"median\"", 400, "/problems/invalid-input", "/baseline/scatter")]
     [InlineData("basis", "[[1, 0], [0, 1], [0, 0]]", 400, "/problems/invalid-input", "/baseline/basis")]
     [InlineData("basis", "[[1, 0], [0, 1]]", 400, "/problems/invalid-input", "/baseline/basis")]
+    [InlineData("basis", "[[1, 0], null, [0, 0]]", 400, "/problems/invalid-input", "/baseline/basis")]
+    [InlineData("covariance", "[null, [0, 1]]", 400, "/problems/invalid-input", "/baseline/covariance")]
     [InlineData("parts", "[\"a\", \"a\", \"c\"]", 400, "/problems/invalid-input", "/baseline/parts/1")]
     [InlineData("threshold", "3", 400, "/problems/invalid-input", "/baseline/threshold")]
     [InlineData("degreesOfFreedom", "3", 400, "/problems/invalid-input", "/baseline/degreesOfFreedom")]
@@ -257,6 +259,20 @@ public class ScreeningTests(PartwiseFactory factory) : IClassFixture<PartwiseFac
         document[field] = System.Text.Json.Nodes.JsonNode.Parse(value);
         using var response = await client.PostJson("/v1/screenings", "{\"baseline\": " + document.ToJsonString() + ", \"sample\": " + BaselineBodies.Sample("i", 1, 2, 3) + "}");
         await response.Problem(status, type, pointer);
+    }
+
+    [Fact]
+    public async Task ExtremeButPositiveValuesScreenOrAre422NeverA500()
+    {
+        // 1e-300 is tiny but a/c = 2e300 is still a double: screened and flagged by the rule a/c ≤ 0.5. With 1e-320
+        // (subnormal) ln a − ln c ≈ 737 is finite but a/c overflows: the ratio cannot be written, so a 422 at the values.
+        using var client = factory.CreateClient();
+        var id = await TinyBaseline(client, "subnormal", "\"scatter\": \"classical\", \"rules\": [{\"ratio\": {\"num\": [\"a\"], \"den\": [\"c\"]}, \"max\": 0.5}]");
+        var result = (await BaselineBodies.Screen(client, id, "{\"sample\": " + BaselineBodies.Sample("tiny-1", 2, 2, 1e-300) + "}")).GetProperty("results")[0];
+        Assert.True(result.GetProperty("flagged").GetBoolean());
+        Assert.True(double.IsFinite(result.GetProperty("distance").GetDouble()));
+        using var response = await client.PostJson($"/v1/baselines/{id}/screenings", "{\"sample\": " + BaselineBodies.Sample("sub-1", 2, 2, 1e-320) + "}");
+        await response.Problem(422, "/problems/non-finite-value", "/sample/values");
     }
 
     [Fact]

@@ -47,4 +47,19 @@ public class LogRatioValidationTests
         Assert.Equal(0, a.Sum(), 12);
         Assert.Equal(1, a.Sum(v => v * v), 12);
     }
+
+    [Theory]
+    [InlineData(44.9, 1e-320)]
+    [InlineData(1e-320, 44.9)]
+    [InlineData(1e308, 1e-10)]
+    [InlineData(4.9e-324, 1e308)]
+    public void ALogRatioOfExtremeButPositiveValuesIsFinite(double a, double b)
+    {
+        // The quotient a / b overflows or underflows a double; ln a − ln b does not (identity ln(a/b) = ln a − ln b).
+        var pairwise = LogRatio.Create(Parts, ["Ca"], ["Mg"], null, "/ratios/0");
+        var amalgamation = LogRatio.Create(Parts, ["Ca", "Na"], ["Mg", "K"], RatioKind.Amalgamation, "/ratios/1");
+        double[] row = [a, b, 0, 0];
+        Assert.Equal(Math.Log(a) - Math.Log(b), pairwise.Evaluate(row), 1e-9);
+        Assert.Equal(Math.Log(a) - Math.Log(b), amalgamation.Evaluate(row), 1e-9);
+    }
 }
