@@ -3,6 +3,7 @@
 #
 #   postgres-throwaway.sh start [port] [directory]   initialise (if needed) and start; prints the connection string
 #   postgres-throwaway.sh stop  [port] [directory]   stop it and delete the directory and its log
+#   postgres-throwaway.sh halt  [port] [directory]   stop it and keep its data (start again resumes it; outage tests)
 #   postgres-throwaway.sh status [port] [directory]
 #
 # Defaults: port 55432, directory /tmp/partwise-pg. Use it as
@@ -23,7 +24,7 @@ log="${directory}.log"
 say() { echo "postgres-throwaway: $*" >&2; }
 
 usage() {
-    echo "usage: $0 start|stop|status [port] [directory]" >&2
+    echo "usage: $0 start|stop|halt|status [port] [directory]" >&2
     exit 2
 }
 
@@ -121,6 +122,16 @@ stop() {
     rm -rf "$directory" "$log"
 }
 
+halt() {
+    bin="$(find_bin)"
+    if [[ -n "$bin" ]] && running; then
+        say "halting the cluster in $directory (data kept)"
+        as_owner "$bin/pg_ctl" -D "$directory" -m fast -w stop >&2
+    else
+        say "no cluster running in $directory"
+    fi
+}
+
 status() {
     bin="$(find_bin)"
     if [[ -n "$bin" ]] && running; then
@@ -135,6 +146,7 @@ status() {
 case "$command" in
     start) start ;;
     stop) stop ;;
+    halt) halt ;;
     status) status ;;
     *) usage ;;
 esac
