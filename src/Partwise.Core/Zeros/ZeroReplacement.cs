@@ -128,6 +128,12 @@ public static class ZeroReplacement
                         throw new CompositionException(ProblemTypes.InvalidZeroPolicy, $"/rows/{i}/{k}", $"Part '{table.Parts[k]}' is zero in row {i} but has no detection limit; give one in {pointer}/detectionLimits.");
                     }
 
+                    if (policy.Fraction * limits[k] == 0)
+                    {
+                        // f · DL of two tiny positive doubles can underflow to 0, whose log is −∞.
+                        throw new CompositionException(ProblemTypes.InvalidZeroPolicy, pointer + "/fraction", $"The replacement of part '{table.Parts[k]}' (fraction × detection limit) is below the smallest positive double; use a larger fraction or detection limit.");
+                    }
+
                     replaced += policy.Fraction * limits[k];
                     zeros++;
                 }
@@ -159,6 +165,11 @@ public static class ZeroReplacement
                 else
                 {
                     row[k] *= shrink;
+                    if (row[k] == 0)
+                    {
+                        // A subnormal value times the shrink factor can round to 0, whose log is −∞.
+                        throw new CompositionException(ProblemTypes.InvalidZeroPolicy, $"/rows/{i}/{k}", $"Part '{table.Parts[k]}' in row {i} is too small to keep a positive value after the zeros of the row are replaced.");
+                    }
                 }
             }
         }

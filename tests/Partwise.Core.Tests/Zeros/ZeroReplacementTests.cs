@@ -111,4 +111,24 @@ public class ZeroReplacementTests
         var ex = Assert.Throws<CompositionException>(() => ZeroReplacement.Apply(table, new MultiplicativeReplacement(1.0, null, fraction)));
         Assert.Equal("/zeros/fraction", ex.Errors[0].Pointer);
     }
+
+    [Fact]
+    public void AReplacementThatUnderflowsToZeroIsRefusedAtTheFraction()
+    {
+        // 4.9e-324 (the smallest positive double) × 0.05 rounds to 0: the "replaced" zero would stay a zero.
+        var table = CompositionTable.FromRows(Parts, [[0, 1, 1]]);
+        var ex = Assert.Throws<CompositionException>(() => ZeroReplacement.Apply(table, new MultiplicativeReplacement(0.05, null, 4.9e-324)));
+        Assert.Equal(ProblemTypes.InvalidZeroPolicy, ex.ProblemType);
+        Assert.Equal("/zeros/fraction", ex.Errors[0].Pointer);
+    }
+
+    [Fact]
+    public void ASubnormalValueThatTheShrinkWouldRoundToZeroIsRefusedAtItsCell()
+    {
+        // Shrink 1 − 0.6/1 = 0.4 turns the smallest positive double into 0.4 of a unit in the last place: 0.
+        var table = CompositionTable.FromRows(Parts, [[0, 1, 4.9e-324]]);
+        var ex = Assert.Throws<CompositionException>(() => ZeroReplacement.Apply(table, new MultiplicativeReplacement(1.0, null, 0.6)));
+        Assert.Equal(ProblemTypes.InvalidZeroPolicy, ex.ProblemType);
+        Assert.Equal("/rows/0/2", ex.Errors[0].Pointer);
+    }
 }
