@@ -134,7 +134,16 @@ public static class SampleScreening
             throw BaselineOptionsReader.Rebase(e, pointer => RowPointer(pointer, samples, parts));
         }
 
-        var results = Screener.ScreenRows(core, replaced.Table.Values);
+        ScreeningResult[] results;
+        try
+        {
+            results = Screener.ScreenRows(core, replaced.Table.Values);
+        }
+        catch (CompositionException e)
+        {
+            throw BaselineOptionsReader.Rebase(e, pointer => RowPointer(pointer, samples, parts));
+        }
+
         var imputed = replaced.Imputed.ToLookup(c => c.Row);
         var items = new ScreeningResultItem[m];
         for (var i = 0; i < m; i++)

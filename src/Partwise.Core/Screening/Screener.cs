@@ -77,7 +77,7 @@ public static class Screener
         var results = new ScreeningResult[m];
         for (var i = 0; i < m; i++)
         {
-            results[i] = worker.Screen(rows.Slice(i * j, j));
+            results[i] = worker.Screen(rows.Slice(i * j, j)) ?? throw NonFiniteDistance(string.Create(CultureInfo.InvariantCulture, $"{pointer}/{i}"));
         }
 
         return results;
@@ -167,7 +167,7 @@ public static class Screener
         var results = new ScreeningResult[samples.Count];
         for (var i = 0; i < results.Length; i++)
         {
-            results[i] = worker.Screen(rows.AsSpan(i * j, j));
+            results[i] = worker.Screen(rows.AsSpan(i * j, j)) ?? throw NonFiniteDistance(samplePointer(prefix, i));
         }
 
         return results;
@@ -227,4 +227,9 @@ public static class Screener
             ? (ProblemTypes.NegativeValue, $"The value {v.ToString("R", CultureInfo.InvariantCulture)} is negative; compositions are non-negative.")
             : (ProblemTypes.ZeroValue, "The value is zero; apply the baseline's zero policy before screening, since a zero has no log-ratio.");
     }
+
+    private static CompositionException NonFiniteDistance(string pointer) => new(
+        ProblemTypes.NonFiniteValue,
+        pointer,
+        "The squared distance of this sample from the baseline's centre is not a finite number: the baseline's location or covariance is too extreme for these values.");
 }

@@ -53,10 +53,19 @@ internal sealed class ScreeningWorker
         return CholeskyKernel.SquaredDistance(_coordinates, _baseline.LocationArray, _baseline.FactorArray, p, _work);
     }
 
-    /// <summary>The full screening of one sample: distance, p-value, reasons and rules. O(J² + J p + p²).</summary>
-    internal ScreeningResult Screen(ReadOnlySpan<double> values)
+    /// <summary>
+    /// The full screening of one sample: distance, p-value, reasons and rules. O(J² + J p + p²). Null when d² is not a
+    /// finite number (a baseline whose location or covariance is so extreme that the squares overflow); the caller
+    /// turns that into a problem at the sample.
+    /// </summary>
+    internal ScreeningResult? Screen(ReadOnlySpan<double> values)
     {
         var d2 = SquaredDistance(values);
+        if (!double.IsFinite(d2))
+        {
+            return null;
+        }
+
         var exceeds = d2 > _baseline.Threshold;
         var reasons = Reasons(values);
         var violations = Violations(values);

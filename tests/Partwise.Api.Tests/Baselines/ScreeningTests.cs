@@ -237,6 +237,7 @@ public class ScreeningTests(PartwiseFactory factory) : IClassFixture<PartwiseFac
     [Theory]
     [InlineData("location", "null", 400, "/problems/invalid-input", "/baseline/location")]
     [InlineData("location", "[1, 2, 3]", 400, "/problems/invalid-input", "/baseline/location")]
+    [InlineData("location", "[1e300, -1e300]", 422, "/problems/non-finite-value", "/sample/values")]
     [InlineData("covariance", "[[1, 0], [0, -1]]", 422, "/problems/singular-scatter", "/baseline/covariance")]
     [InlineData("covariance", "[[1, 0.5], [0.2, 1]]", 400, "/problems/invalid-input", "/baseline/covariance/1/0")]
     [InlineData("cutoff", "1.5", 422, "/problems/invalid-option", "/baseline/cutoff")]
