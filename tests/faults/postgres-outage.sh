@@ -59,7 +59,7 @@ fi
 PG_STARTED=1
 CONNECTION="$(bash "$PG_SCRIPT" start "$PG_PORT" "$PG_DIR")" || fail_now "PostgreSQL did not start"
 ( cd "$OUT" && exec env Partwise__Storage__PostgresConnectionString="$CONNECTION" Partwise__Demo__Enabled=false \
-    ASPNETCORE_ENVIRONMENT=Production Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
+    ASPNETCORE_ENVIRONMENT=Production Partwise__RateLimits__Screening__PermitsPerSecond=0 Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
     dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
 PID=$!
 for _ in $(seq 1 120); do

@@ -42,9 +42,11 @@ if [[ "${PARTWISE_LOAD_NO_BUILD:-}" != 1 ]]; then
     dotnet build src/Partwise.Api/Partwise.Api.csproj -c Release --nologo -v quiet >&2
 fi
 
-# As tests/load/run.sh: a temporary SQLite store, warning-level logs (a console line per request would measure the console).
+# As tests/load/run.sh: a temporary SQLite store, warning-level logs (a console line per request would measure the
+# console), the per-caller rate limits off (wrk is one caller).
 ( cd "$OUT" && exec env Partwise__Storage__DataDirectory="$WORK/data" Partwise__Storage__PostgresConnectionString="" \
     Partwise__Demo__Enabled=false ASPNETCORE_ENVIRONMENT=Production \
+    Partwise__RateLimits__Screening__PermitsPerSecond=0 Partwise__RateLimits__Compute__PermitsPerSecond=0 \
     Serilog__MinimumLevel__Default=Warning Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
     dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
 PID=$!
