@@ -3,14 +3,14 @@
 # the served OpenAPI document, and malformed HTTP framing) against a service started here on 127.0.0.1 with a
 # temporary SQLite store; stops it afterwards. Prints run.py's "N passed, N failed"; exits non-zero on any failure.
 #
-#   tests/hostile/run.sh        (PARTWISE_HOSTILE_PORT, default 5483; PARTWISE_HOSTILE_NO_BUILD=1 reuses a Release
+#   tests/hostile/run.sh        (PARTWISE_HOSTILE_PORT, default 5486; PARTWISE_HOSTILE_NO_BUILD=1 reuses a Release
 #                                build; PARTWISE_HOSTILE_SEED another seed)
 # .ci/run runs run.py directly against the Release service it starts for the reference checks.
 set -euo pipefail
 
 cd "$(dirname "${BASH_SOURCE[0]}")/../.."
 ROOT="$(pwd)"
-PORT="${PARTWISE_HOSTILE_PORT:-5483}"
+PORT="${PARTWISE_HOSTILE_PORT:-5486}"
 URL="http://127.0.0.1:$PORT"
 WORK="$(mktemp -d -t partwise-hostile.XXXXXX)"
 OUT="$ROOT/src/Partwise.Api/bin/Release/net10.0"
