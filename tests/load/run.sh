@@ -47,21 +47,10 @@ else
     PROVIDER="sqlite, synchronous=${PARTWISE_LOAD_SQLITE_SYNCHRONOUS:-Full}"
 fi
 
-# Warning-level logs only: one console line per request would measure the console. The per-caller rate limits are
-# off (0), so that wrk, one caller at 16 connections, measures the service and not the limiter.
-( cd "$OUT" && exec env "${STORE[@]}" Partwise__Demo__Enabled=false ASPNETCORE_ENVIRONMENT=Production \
-    Partwise__RateLimits__Screening__PermitsPerSecond=0 Partwise__RateLimits__Compute__PermitsPerSecond=0 \
-    Serilog__MinimumLevel__Default=Warning Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
-    dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
-PID=$!
-for _ in $(seq 1 120); do
-    curl -fsS -o /dev/null --max-time 2 "$URL/readyz" 2>/dev/null && break
-    kill -0 "$PID" 2>/dev/null || { cat "$WORK/service.log" >&2; exit 1; }
-    sleep 0.5
-done
-
-BODY="$(sed 's/"name": "well-11 2025"/"name": "load-'"$$"'"/' demo/well-11-baseline.json)"
-BASELINE="$(curl -fsS -H 'Content-Type: application/json' --data-binary "$BODY" "$URL/v1/baselines" | /usr/bin/python3 -c 'import json,sys; print(json.load(sys.stdin)["id"])')"
+# shellcheck source=tests/load/service.sh
+source tests/load/service.sh
+load_start_service "${STORE[@]}" || exit 1
+BASELINE="$(load_demo_baseline "load-$$")"
 
 echo "== $PROVIDER store, baseline $BASELINE, $DURATION s per phase, $(nproc) cores"
 # A short warm-up so that the JIT and the connection pool are not measured.

@@ -42,22 +42,12 @@ if [[ "${PARTWISE_LOAD_NO_BUILD:-}" != 1 ]]; then
     dotnet build src/Partwise.Api/Partwise.Api.csproj -c Release --nologo -v quiet >&2
 fi
 
-# As tests/load/run.sh: a temporary SQLite store, warning-level logs (a console line per request would measure the
-# console), the per-caller rate limits off (wrk is one caller).
-( cd "$OUT" && exec env Partwise__Storage__DataDirectory="$WORK/data" Partwise__Storage__PostgresConnectionString="" \
-    Partwise__Demo__Enabled=false ASPNETCORE_ENVIRONMENT=Production \
-    Partwise__RateLimits__Screening__PermitsPerSecond=0 Partwise__RateLimits__Compute__PermitsPerSecond=0 \
-    Serilog__MinimumLevel__Default=Warning Serilog__MinimumLevel__Override__Serilog.AspNetCore.RequestLoggingMiddleware=Warning \
-    dotnet Partwise.Api.dll --urls "$URL" ) >"$WORK/service.log" 2>&1 &
-PID=$!
-for _ in $(seq 1 120); do
-    curl -fsS -o /dev/null --max-time 2 "$URL/readyz" 2>/dev/null && break
-    kill -0 "$PID" 2>/dev/null || { cat "$WORK/service.log" >&2; echo "0 passed, 1 failed"; exit 1; }
-    sleep 0.5
-done
-
-BODY="$(sed 's/"name": "well-11 2025"/"name": "soak-'"$$"'"/' demo/well-11-baseline.json)"
-BASELINE="$(curl -fsS -H 'Content-Type: application/json' --data-binary "$BODY" "$URL/v1/baselines" | /usr/bin/python3 -c 'import json,sys; print(json.load(sys.stdin)["id"])')"
+# As tests/load/run.sh: a temporary SQLite store, the service and the demo baseline of tests/load/service.sh.
+# shellcheck source=tests/load/service.sh
+source tests/load/service.sh
+load_start_service Partwise__Storage__DataDirectory="$WORK/data" Partwise__Storage__PostgresConnectionString="" \
+    || { echo "0 passed, 1 failed"; exit 1; }
+BASELINE="$(load_demo_baseline "soak-$$")"
 URL_SCREEN="$URL/v1/baselines/$BASELINE/screenings"
 
 rss_kib() { awk '/^VmRSS:/ {print $2}' "/proc/$PID/status"; }
