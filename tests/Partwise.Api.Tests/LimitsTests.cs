@@ -137,6 +137,8 @@ public class LimitsTests
     [InlineData("MaxRows", "0")]
     [InlineData("MaxDistanceRows", "100000")]
     [InlineData("MaxResultValues", "0")]
+    [InlineData("ComputeTimeoutSeconds", "-1")]
+    [InlineData("ComputeTimeoutSeconds", "100000")]
     public void AnInvalidLimitStopsTheServiceAtStart(string name, string value)
     {
         // The host refuses to start. What the test host throws while it tears the failed host down varies (at

@@ -10,13 +10,13 @@ internal static class ScreeningRecorder
     /// Records the entries of one call against an active baseline (its status already checked in this transaction):
     /// a new (baseline, sample id) is inserted, with its flag when flagged; one stored with the same fingerprint is a
     /// duplicate; one with another fingerprint is a conflict, and then the call's own writes are undone, back to the
-    /// savepoint taken when <paramref name="ownSavepoint"/> is set (a call of several entries inside a group), or by
-    /// the caller rolling back the whole transaction. Entries are written in ordinal order of sample id, so that two
+    /// savepoint taken when <paramref name="ownSavepoint"/> is set (a call of several entries; a call of one entry
+    /// has written nothing when it conflicts). Entries are written in ordinal order of sample id, so that two
     /// transactions writing overlapping samples lock them in the same order; the outcomes keep the order given.
     /// The change counter's lock must already be held when any entry is flagged.
     /// </summary>
-    /// <returns>The call's result, its last change token (null when it raised no flag or was undone), and whether its writes stand.</returns>
-    public static async Task<(ScreeningBatchResult Result, ChangeToken? Token, bool Stands)> RecordAsync(
+    /// <returns>The call's result and its last change token (null when it raised no flag or was undone).</returns>
+    public static async Task<(ScreeningBatchResult Result, ChangeToken? Token)> RecordAsync(
         ScreeningStatements statements,
         DateTimeOffset screenedAt,
         string baselineId,
@@ -75,7 +75,7 @@ internal static class ScreeningRecorder
                     ? o with { Kind = ScreeningOutcomeKind.NotRecorded, Stored = null }
                     : o)
                 .ToList();
-            return (new ScreeningBatchResult(ScreeningBatchStatus.Conflict, undone), null, false);
+            return (new ScreeningBatchResult(ScreeningBatchStatus.Conflict, undone), null);
         }
 
         if (ownSavepoint)
@@ -83,6 +83,6 @@ internal static class ScreeningRecorder
             await statements.ReleaseAsync(ct);
         }
 
-        return (new ScreeningBatchResult(ScreeningBatchStatus.Committed, outcomes), token, true);
+        return (new ScreeningBatchResult(ScreeningBatchStatus.Committed, outcomes), token);
     }
 }

@@ -114,12 +114,11 @@ internal sealed class ScreeningWriter : IAsyncDisposable
 
             return;
         }
-        catch (Exception ex) when (group.Count > 1)
+        catch (Exception) when (group.Count > 1)
         {
             // Nothing of the group was stored. Either two replicas' groups locked the same screening keys in opposite
             // orders (PostgreSQL broke the cycle by aborting this one), or one call failed in a way no check foresaw:
             // each call is written again in a transaction of its own, so a failure stays with the call that caused it.
-            _ = ex;
             await DropConnectionAsync().ConfigureAwait(false);
             foreach (var call in group)
             {
@@ -183,7 +182,7 @@ internal sealed class ScreeningWriter : IAsyncDisposable
 
             // A call of one entry writes nothing when it conflicts; a call of several needs its own savepoint so
             // that a conflict undoes its earlier entries and nothing of the calls around it.
-            var (result, token, _) = await ScreeningRecorder.RecordAsync(
+            var (result, token) = await ScreeningRecorder.RecordAsync(
                 open, database.Now(), call.BaselineId, call.Entries, ownSavepoint: call.Entries.Count > 1, ct).ConfigureAwait(false);
             outcomes[i] = new Outcome(result, token);
         }
